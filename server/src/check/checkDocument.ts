@@ -1,0 +1,101 @@
+// The one path from a document's text to verdicts, shared by the CLI and the
+// language server: discover pairs, bundle the module, run each pair's plan in
+// the sandbox.
+import { discoverPairs } from '../discovery/discover';
+import type { DiscoveredPair, SourceSpan } from '../discovery/types';
+import type { CheckOptions, CheckPlan, Finding, PairReport, PairStatus } from '../engine/types';
+import { bundleDocument, unrunnableBundleFindings } from '../sandbox/bundle';
+import type { SandboxPool } from '../sandbox/pool';
+
+export interface PairOutcome {
+  pair: DiscoveredPair;
+  report: PairReport;
+  /** The user's console output during the check, truncated. */
+  console: string[];
+}
+
+export interface DocumentCheck {
+  fileName: string;
+  pairs: PairOutcome[];
+  /** Problems of the whole file (syntax errors), with where they are. */
+  fileFindings: Array<Finding & { span: SourceSpan }>;
+}
+
+/** Codes found by discovery that leave nothing to run. */
+const blockingCodes = new Set(['unknown-dimension', 'bad-probe', 'missing-export']);
+
+export async function checkDocument(
+  text: string,
+  fileName: string,
+  pool: SandboxPool,
+  options: CheckOptions,
+  signal?: AbortSignal,
+): Promise<DocumentCheck> {
+  const discovery = discoverPairs(text, fileName);
+  const result: DocumentCheck = { fileName, pairs: [], fileFindings: discovery.fileFindings };
+  if (discovery.pairs.length === 0) return result;
+
+  const bundle = await bundleDocument(text, fileName);
+  const bundleFindings = unrunnableBundleFindings(bundle);
+  for (const pair of discovery.pairs) {
+    signal?.throwIfAborted();
+    const blocking = pair.findings.filter((f) => blockingCodes.has(f.code) || f.severity === 'error');
+    if (bundleFindings.length > 0) {
+      result.pairs.push(unrunOutcome(pair, [...pair.findings, ...bundleFindings], 'error'));
+    } else if (blocking.length > 0) {
+      const status = blocking.some((f) => f.severity === 'error') ? 'error' : 'inconclusive';
+      result.pairs.push(unrunOutcome(pair, pair.findings, status));
+    } else {
+      const plan: CheckPlan = { ...pair.plan, options };
+      const run = await pool.run(bundle, plan, signal);
+      run.report.findings.unshift(...pair.findings);
+      result.pairs.push({ pair, report: run.report, console: run.console });
+    }
+  }
+  return result;
+}
+
+/** A report for a pair that was not executed, carrying the reasons why. */
+function unrunOutcome(pair: DiscoveredPair, findings: Finding[], status: PairStatus): PairOutcome {
+  return {
+    pair,
+    console: [],
+    report: {
+      status,
+      dimension: pair.plan.dimension ?? pair.plan.probes[0]?.length ?? null,
+      maxRelError: null,
+      diagnosis: null,
+      smoothness: null,
+      learningRate: null,
+      probes: [],
+      findings,
+      evaluations: { objective: 0, gradient: 0 },
+      elapsedMs: 0,
+    },
+  };
+}
+
+/** Where a finding belongs in the document: the name it is about, or the user's throwing line. */
+export function findingSpan(pair: DiscoveredPair, finding: Finding): SourceSpan {
+  switch (finding.subject) {
+    case 'gradient':
+      return (pair.gradient ?? pair.objective).nameSpan;
+    case 'learningRate':
+      return (pair.learningRate ?? pair.objective).nameSpan;
+    case 'probe':
+      return pair.objective.probeTags[0] ?? pair.objective.nameSpan;
+    default:
+      return pair.objective.nameSpan;
+  }
+}
+
+/** 1-based line for the CLI: the user's throwing line when it is in this file, else the finding's span. */
+export function findingLine(fileName: string, pair: DiscoveredPair, finding: Finding): number {
+  if (finding.location && sameFile(finding.location.file, fileName)) return finding.location.line;
+  return findingSpan(pair, finding).line;
+}
+
+function sameFile(a: string, b: string): boolean {
+  const norm = (p: string) => p.replace(/\\/g, '/');
+  return norm(a) === norm(b) || norm(b).endsWith('/' + norm(a)) || norm(a).endsWith('/' + norm(b));
+}

@@ -1,0 +1,38 @@
+// One description per finding code. The CLI's SARIF rules, the README's
+// finding reference and the editor's diagnostic links all come from here.
+import type { FindingCode } from '../engine/types';
+
+export const readmeUrl = 'https://github.com/slopecheck/slopecheck/blob/main/README.md';
+
+export const findingTitles: Record<FindingCode, string> = {
+  'gradient-mismatch': 'The gradient disagrees with central differences of the objective beyond their error bound.',
+  'gradient-wrong-length': 'The gradient returns a vector whose length differs from the number of parameters.',
+  'gradient-not-a-vector': 'The gradient returns something that is not an array of numbers.',
+  'non-finite-value': 'The objective or the gradient returns NaN or Infinity at a probe.',
+  'non-smooth-probe': 'One-sided differences disagree at a probe: the objective has a kink there, so no verdict is possible.',
+  'noisy-objective': 'The objective is too noisy near a probe to decide whether the gradient is right.',
+  'objective-not-a-number': 'The objective returns something other than a number.',
+  'unrepeatable-objective': 'Two calls of the objective at the same point gave different values.',
+  'input-mutated': 'The objective or the gradient changes the point it was given.',
+  'async-result': 'The function returns a Promise; only synchronous objectives and gradients can be checked.',
+  'runtime-error': 'The user code threw while being checked.',
+  timeout: 'The check did not finish within the time limit; the sandbox was stopped.',
+  'sandbox-crash': 'The sandbox process ended unexpectedly while running the user code.',
+  'memory-limit': 'The user code used more memory than the sandbox allows.',
+  'builtin-import': 'The module imports a Node built-in module, so it is not executed.',
+  'bundle-error': 'The module or one of its imports could not be bundled.',
+  'syntax-error': 'The file has a syntax error.',
+  'missing-export': 'A name the check needs is not an exported function or value of the module.',
+  'unknown-dimension': 'The number of parameters cannot be told; a probe point is needed.',
+  'bad-probe': 'A probe point is malformed or does not match the other probes.',
+  'rate-aggressive': 'The declared learning rate is above the local safe step 1/L̂ but below the divergence threshold 2/L̂.',
+  'rate-divergent': 'The declared learning rate is at or above the local divergence threshold 2/L̂.',
+  'rate-unconfirmed': 'A short run of gradient steps at the declared rate did not behave as the smoothness estimate predicts.',
+};
+
+/** Link to a code's section in the README (the heading is the code itself). */
+export function findingHelpUrl(code: FindingCode): string {
+  return `${readmeUrl}#${code}`;
+}
+
+export const allFindingCodes = Object.keys(findingTitles) as FindingCode[];

@@ -1,0 +1,67 @@
+// Command-line arguments of `slopecheck`.
+export type OutputFormat = 'text' | 'json' | 'sarif';
+
+export interface CliArguments {
+  format: OutputFormat;
+  seed: number;
+  timeoutMs: number;
+  /** Files and folders to check, as given. */
+  paths: string[];
+}
+
+export const usage = `Usage: slopecheck [--format text|json|sarif] [--seed N] [--timeout-ms N] <files or folders...>
+
+Checks every exported objective/gradient pair in the given .ts and .js files
+(folders are searched recursively, node_modules skipped). Checking a file runs
+its code in a sandbox process.
+
+  --format      text (default), json or sarif; json and sarif go to stdout alone
+  --seed        seed of the random probes and directions (default 1)
+  --timeout-ms  time limit for checking one pair, in milliseconds (default 5000)
+  --help        show this text
+
+Exit status: 0 no error-level finding, 1 at least one, 2 usage error or unreadable input.`;
+
+export class UsageError extends Error {}
+
+/** Parses argv (without node and script); throws UsageError with a message fit for the user. */
+export function parseArguments(argv: string[]): CliArguments | 'help' {
+  const result: CliArguments = { format: 'text', seed: 1, timeoutMs: 5000, paths: [] };
+  for (let i = 0; i < argv.length; i++) {
+    const arg = argv[i];
+    const [flag, inlineValue] = arg.startsWith('--') && arg.includes('=') ? [arg.slice(0, arg.indexOf('=')), arg.slice(arg.indexOf('=') + 1)] : [arg, undefined];
+    const value = (): string => {
+      const v = inlineValue ?? argv[++i];
+      if (v === undefined) throw new UsageError(`${flag} needs a value`);
+      return v;
+    };
+    switch (flag) {
+      case '--help':
+      case '-h':
+        return 'help';
+      case '--format': {
+        const v = value();
+        if (v !== 'text' && v !== 'json' && v !== 'sarif') throw new UsageError(`--format must be text, json or sarif, not '${v}'`);
+        result.format = v;
+        break;
+      }
+      case '--seed':
+        result.seed = integer(flag, value(), 0);
+        break;
+      case '--timeout-ms':
+        result.timeoutMs = integer(flag, value(), 1);
+        break;
+      default:
+        if (flag.startsWith('-') && flag !== '-') throw new UsageError(`unknown option ${flag}`);
+        result.paths.push(arg);
+    }
+  }
+  if (result.paths.length === 0) throw new UsageError('no files or folders given');
+  return result;
+}
+
+function integer(flag: string, text: string, min: number): number {
+  const n = Number(text);
+  if (!/^\d+$/.test(text) || !Number.isSafeInteger(n) || n < min) throw new UsageError(`${flag} must be a whole number ≥ ${min}, not '${text}'`);
+  return n;
+}

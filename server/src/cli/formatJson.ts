@@ -1,0 +1,53 @@
+// The JSON document of `slopecheck --format json`. Other tools read the field
+// names of the pair objects; new fields may be added, none renamed.
+import { findingLine } from '../check/checkDocument';
+import type { FileOutcome } from './outcome';
+import { summarise } from './outcome';
+
+export function formatJson(outcomes: FileOutcome[], meta: { version: string; seed: number }): string {
+  const files = outcomes.map((outcome) => ({
+    path: outcome.path,
+    ...(outcome.error ? { error: outcome.error } : {}),
+    findings: (outcome.check?.fileFindings ?? []).map((f) => ({ code: f.code, severity: f.severity, message: f.message, line: f.span.line })),
+    pairs: (outcome.check?.pairs ?? []).map(({ pair, report, console }) => ({
+      objective: pair.objective.name,
+      gradient: pair.gradient?.name ?? pair.objective.name,
+      combined: pair.gradient === null,
+      line: pair.objective.nameSpan.line,
+      status: report.status,
+      maxRelError: report.maxRelError,
+      lipschitz: report.smoothness?.lipschitz ?? null,
+      safeStep: report.smoothness?.safeStep ?? null,
+      learningRate: report.learningRate
+        ? { name: report.learningRate.name, value: report.learningRate.value, status: report.learningRate.status }
+        : null,
+      findings: report.findings.map((f) => ({
+        code: f.code,
+        severity: f.severity,
+        message: f.message,
+        line: findingLine(outcome.check!.fileName, pair, f),
+        ...(f.components ? { components: f.components } : {}),
+      })),
+      dimension: report.dimension,
+      diagnosis: report.diagnosis,
+      mu: report.smoothness?.mu ?? null,
+      kappa: report.smoothness?.kappa ?? null,
+      divergenceStep: report.smoothness?.divergenceStep ?? null,
+      probes: report.probes.length,
+      evaluations: report.evaluations,
+      elapsedMs: report.elapsedMs,
+      console,
+    })),
+  }));
+  return JSON.stringify(
+    {
+      tool: { name: 'slopecheck', version: meta.version },
+      seed: meta.seed,
+      caution: 'Smoothness figures (lipschitz, safeStep, mu, kappa) are local estimates near the probe points, not global guarantees.',
+      files,
+      summary: summarise(outcomes),
+    },
+    null,
+    2,
+  );
+}

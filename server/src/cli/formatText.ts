@@ -1,0 +1,59 @@
+// The human-readable table of `slopecheck` (the default format).
+import { findingLine } from '../check/checkDocument';
+import type { PairStatus, Severity } from '../engine/types';
+import type { FileOutcome } from './outcome';
+import { summarise } from './outcome';
+
+const verdictWord: Record<PairStatus, string> = { pass: 'ok', fail: 'WRONG', inconclusive: 'undecided', error: 'ERROR' };
+const severityWord: Record<Severity, string> = { error: 'error', warning: 'warn', info: 'note' };
+
+const columns = ['line', 'objective → gradient', 'verdict', 'max rel err', 'L̂ (local)', 'step 1/L̂', 'learning rate'];
+
+export function formatText(outcomes: FileOutcome[]): string {
+  const out: string[] = [];
+  for (const outcome of outcomes) {
+    out.push(outcome.path);
+    if (outcome.error) {
+      out.push(`  cannot check: ${outcome.error}`, '');
+      continue;
+    }
+    const check = outcome.check!;
+    for (const f of check.fileFindings) out.push(`  ${severityWord[f.severity]}  line ${f.span.line}  ${f.code}: ${f.message}`);
+    if (check.pairs.length === 0) {
+      out.push('  no objective/gradient pairs found', '');
+      continue;
+    }
+    const rows = check.pairs.map(({ pair, report }) => [
+      String(pair.objective.nameSpan.line),
+      pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (value and gradient)`,
+      verdictWord[report.status],
+      sci(report.maxRelError),
+      sci(report.smoothness?.lipschitz ?? null),
+      sci(report.smoothness?.safeStep ?? null),
+      report.learningRate ? `${report.learningRate.name} = ${report.learningRate.value} (${report.learningRate.status})` : '—',
+    ]);
+    const widths = columns.map((c, i) => Math.max(c.length, ...rows.map((r) => r[i].length)));
+    const line = (cells: string[]) => '  ' + cells.map((c, i) => c.padEnd(widths[i])).join('  ').trimEnd();
+    out.push(line(columns));
+    check.pairs.forEach(({ pair, report }, i) => {
+      out.push(line(rows[i]));
+      for (const f of report.findings) {
+        out.push(`      ${severityWord[f.severity]}  line ${findingLine(check.fileName, pair, f)}  ${f.code}: ${f.message}`);
+      }
+    });
+    out.push('');
+  }
+  const s = summarise(outcomes);
+  out.push(
+    `${s.pairs} pair${s.pairs === 1 ? '' : 's'} in ${s.files} file${s.files === 1 ? '' : 's'}: ` +
+      `${s.byStatus.pass} ok, ${s.byStatus.fail} wrong, ${s.byStatus.inconclusive} undecided, ${s.byStatus.error} could not run` +
+      (s.unreadable ? `, ${s.unreadable} unreadable` : ''),
+    'L̂ and the steps 1/L̂ are local estimates near the probe points, not guarantees for the whole domain.',
+  );
+  return out.join('\n') + '\n';
+}
+
+function sci(value: number | null): string {
+  if (value === null || !Number.isFinite(value)) return '—';
+  return value.toExponential(2);
+}

@@ -1,0 +1,51 @@
+// What discovery finds in one document. Positions come from the text as given
+// (an unsaved buffer works), so the editor can place diagnostics and edits.
+import type { CheckPlan, Finding } from '../engine/types';
+
+/** A range in the document: offsets for edits, 0-based line/character for LSP, 1-based line for the CLI. */
+export interface SourceSpan {
+  start: number;
+  end: number;
+  startLine: number;
+  startCharacter: number;
+  endLine: number;
+  endCharacter: number;
+  /** 1-based line of `start`. */
+  line: number;
+}
+
+export interface NamedSpan {
+  name: string;
+  /** The identifier itself. */
+  nameSpan: SourceSpan;
+  /** The whole declaration (statement), e.g. for inserting a JSDoc tag above it. */
+  declarationSpan: SourceSpan;
+}
+
+export interface DiscoveredPair {
+  objective: NamedSpan & {
+    /** Each `@probe` tag's span, for related information and edits. */
+    probeTags: SourceSpan[];
+  };
+  /** Null for a combined pair (one function returning value and gradient). */
+  gradient: (NamedSpan & {
+    /** Expressions of the gradient's `return` statements, for quick-fix edits. */
+    returnExpressions: SourceSpan[];
+  }) | null;
+  learningRate: (NamedSpan & { value: number; valueSpan: SourceSpan }) | null;
+  /** How the pair was matched, for explanations in hovers and docs. */
+  matchedBy: 'name' | 'gradientOf-tag' | 'combined';
+  /** Plan without options: the caller merges its settings in. */
+  plan: Omit<CheckPlan, 'options'>;
+  /**
+   * Problems found before running anything (unknown dimension, unreadable @probe).
+   * When one has severity 'error' or code 'unknown-dimension', the pair is not run.
+   */
+  findings: Finding[];
+}
+
+export interface DiscoveryResult {
+  pairs: DiscoveredPair[];
+  /** 1-based line → syntax errors and other whole-file problems. */
+  fileFindings: Array<Finding & { span: SourceSpan }>;
+}

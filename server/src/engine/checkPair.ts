@@ -1,0 +1,175 @@
+// Entry point of the numeric engine: the whole check plan for one pair.
+import { formatBound } from './format';
+import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
+import { createRandom } from './random';
+import { combineSmoothness, probeSmoothness, type ProbeSmoothness } from './smoothness';
+import { descend, reviewLearningRate } from './stepSize';
+import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type Vector } from './types';
+import { CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
+
+/** The user's functions as the engine sees them; the sandbox builds these. */
+export interface PairFunctions {
+  objective(x: Vector): unknown;
+  gradient(x: Vector): unknown;
+  /** A fresh vector of the kind (number[] or Float64Array) and realm the user's code expects. */
+  makeVector(values: ArrayLike<number>): Vector;
+}
+
+export type PairPlan = Pick<CheckPlan, 'dimension' | 'learningRate' | 'options'>;
+
+// Independent seeded streams, so one probe's choices do not shift another's.
+const streams = { probes: 1, noise: 1000, directions: 2000, smoothness: 3000 };
+
+/**
+ * Runs the full check of one pair: gradient check at each probe, smoothness
+ * probes, learning-rate verdict. Catches everything the user's code throws and
+ * turns it into findings; never throws itself.
+ * `probes` may be empty when `plan.dimension` is known: seeded random probes are drawn.
+ */
+export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan, clock: () => number = Date.now): PairReport {
+  const started = readClock(clock);
+  const report: PairReport = {
+    status: 'pass',
+    dimension: null,
+    maxRelError: null,
+    diagnosis: null,
+    smoothness: null,
+    learningRate: null,
+    probes: [],
+    findings: [],
+    evaluations: { objective: 0, gradient: 0 },
+    elapsedMs: 0,
+  };
+  let calls: UserCalls | null = null;
+  try {
+    const options: CheckOptions = { ...defaultCheckOptions, ...(plan && plan.options) };
+    const points = probePoints(probes, plan, options, report);
+    if (points !== null) {
+      calls = createUserCalls(fns, points[0].length);
+      runChecks(calls, points, plan, options, report);
+    }
+  } catch (err) {
+    report.status = 'error';
+    if (err instanceof CheckStopped) report.findings.push(err.finding);
+    else report.findings.push(makeFinding('runtime-error', 'objective', `the check itself failed unexpectedly: ${describeThrown(err).text}`));
+  }
+  if (calls !== null) {
+    report.findings.push(...calls.warnings);
+    report.evaluations = { objective: calls.counts.objective, gradient: calls.counts.gradient };
+  }
+  report.elapsedMs = Math.max(0, readClock(clock) - started);
+  return report;
+}
+
+/** Given probes, or seeded standard-normal ones when only the dimension is known. */
+function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): Float64Array[] | null {
+  const bad = (message: string) => {
+    report.status = 'error';
+    report.findings.push({ code: 'bad-probe', severity: 'error', subject: 'probe', message });
+    return null;
+  };
+  if (Array.isArray(probes) && probes.length > 0) {
+    const n = probes[0].length;
+    if (!(n > 0)) return bad('probe 0 has no coordinates');
+    for (let p = 0; p < probes.length; p++) {
+      if (probes[p].length !== n) return bad(`probe ${p} has ${probes[p].length} coordinates but probe 0 has ${n}`);
+      if (!probes[p].every((v) => typeof v === 'number' && Number.isFinite(v))) return bad(`probe ${p} has a coordinate that is not a finite number`);
+    }
+    report.dimension = n;
+    return probes.map((probe) => Float64Array.from(probe));
+  }
+  const n = plan ? plan.dimension : null;
+  if (typeof n !== 'number' || !Number.isInteger(n) || n <= 0) {
+    report.status = 'error';
+    report.findings.push({ code: 'unknown-dimension', severity: 'error', subject: 'objective', message: 'no probe points are given and the dimension is unknown; add a probe point or a fixed-length parameter type' });
+    return null;
+  }
+  report.dimension = n;
+  const random = createRandom(options.seed, streams.probes);
+  const points: Float64Array[] = [];
+  for (let p = 0; p < Math.max(1, options.probeCount); p++) {
+    const point = new Float64Array(n);
+    for (let i = 0; i < n; i++) point[i] = random.normal();
+    points.push(point);
+  }
+  return points;
+}
+
+function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
+  const outcomes: ProbeOutcome[] = [];
+  for (let p = 0; p < points.length; p++) {
+    const outcome = checkProbe(calls, points[p], p, options, createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p), !outcomes.some((o) => o.mismatch));
+    outcomes.push(outcome);
+    report.probes.push(outcome.report);
+    report.findings.push(...outcome.findings);
+  }
+  report.maxRelError = Math.max(...outcomes.map((o) => o.report.maxRelError));
+  const failing = outcomes.find((o) => o.mismatch);
+  report.diagnosis = failing ? failing.diagnosis : null;
+  const studied = failing ?? outcomes[0];
+  studied.report.stepStudy = buildStepStudy(studied);
+
+  const unrepeatable = outcomes.filter((o) => o.unrepeatable);
+  if (unrepeatable.length > 0) {
+    report.findings.push({
+      code: 'unrepeatable-objective',
+      severity: 'warning',
+      subject: 'objective',
+      probeIndex: unrepeatable[0].context.probeIndex,
+      message: `the objective returns different values for the same point (probe ${unrepeatable[0].context.probeIndex}: ${unrepeatable[0].report.value} then another value); randomness or hidden state makes differences unreliable`,
+    });
+  }
+  const undecided = outcomes.filter((o) => o.undecided);
+  if (undecided.length > 0) {
+    report.findings.push({
+      code: 'noisy-objective',
+      severity: 'info',
+      subject: 'objective',
+      probeIndex: undecided[0].context.probeIndex,
+      message: `the objective is too noisy to check the gradient at ${undecided.length === 1 ? 'probe' : 'probes'} ${undecided.map((o) => o.context.probeIndex).join(', ')} (relative noise ≈ ${formatBound(undecided[0].report.noise)}): the numerical error bounds are as large as the gradient`,
+    });
+  }
+  if (failing) report.status = 'fail';
+  else if (unrepeatable.length > 0 || outcomes.some((o) => o.kink) || undecided.length === outcomes.length) report.status = 'inconclusive';
+
+  // A wrong gradient gives wrong curvature, so smoothness and rates are only
+  // estimated when no mismatch was found, and only at probes where f is smooth.
+  if (failing) return;
+  const smooth = outcomes.filter((o) => !o.kink);
+  const perProbe: ProbeSmoothness[] = [];
+  for (const outcome of smooth) {
+    const estimate = probeSmoothness(outcome.context, createRandom(options.seed, streams.smoothness + outcome.context.probeIndex), options.lanczosSteps);
+    outcome.report.smoothness = estimate;
+    if (estimate) perProbe.push(estimate);
+  }
+  report.smoothness = combineSmoothness(perProbe);
+  if (!report.smoothness) return;
+  const declared = plan.learningRate;
+  const declaredRuns = [];
+  for (const outcome of smooth) {
+    const { x, value, probeIndex } = outcome.context;
+    const run = (rate: number, label: 'declared' | 'safe' | 'limit') => descend(calls, x, value, rate, options.descentSteps, label, probeIndex);
+    if (declared) {
+      const declaredRun = run(declared.value, 'declared');
+      declaredRuns.push(declaredRun);
+      outcome.report.descent.push(declaredRun);
+    }
+    outcome.report.descent.push(run(report.smoothness.safeStep, 'safe'), run(report.smoothness.divergenceStep, 'limit'));
+  }
+  if (declared) {
+    const review = reviewLearningRate(declared.name, declared.value, report.smoothness, declaredRuns);
+    report.learningRate = review.verdict;
+    report.findings.push(...review.findings);
+  }
+}
+
+function readClock(clock: () => number): number {
+  try {
+    const now = clock();
+    return typeof now === 'number' && Number.isFinite(now) ? now : 0;
+  } catch {
+    return 0;
+  }
+}
+
+export type { Finding };

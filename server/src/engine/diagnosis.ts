@@ -1,0 +1,119 @@
+// The shape of a gradient error: sign flip, constant factor, permuted
+// components, or a subset of wrong components.
+import type { ComponentCheck, Diagnosis, DirectionalCheck } from './types';
+
+// Shapes must hold to this relative accuracy on top of the numerical error bound.
+const shapeTolerance = 1e-6;
+
+interface Pair {
+  analytic: number;
+  numerical: number;
+  errorBound: number;
+}
+
+function agrees(analytic: number, expected: number, errorBound: number, weight: number): boolean {
+  return Math.abs(analytic - expected) <= 2 * errorBound * weight + shapeTolerance * Math.max(Math.abs(analytic), Math.abs(expected));
+}
+
+/** Nearest p/q with q ≤ 4 when within 0.1%, so 1.9999 reads as 2 and 0.3334 as 1/3. */
+export function roundFactor(factor: number): number {
+  let best = Number(factor.toPrecision(4));
+  let bestDistance = Number.POSITIVE_INFINITY;
+  for (let q = 1; q <= 4; q++) {
+    const p = Math.round(factor * q);
+    if (p === 0) continue;
+    const distance = Math.abs(p / q - factor);
+    if (distance <= 1e-3 * Math.abs(factor) && distance < bestDistance) {
+      best = p / q;
+      bestDistance = distance;
+    }
+  }
+  return best;
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const middle = sorted.length >> 1;
+  return sorted.length % 2 ? sorted[middle] : (sorted[middle - 1] + sorted[middle]) / 2;
+}
+
+/** analytic ≈ c·numerical for every pair that says anything, with c ≠ 1: sign (c = −1) or factor. */
+function constantRatio(mismatched: Pair[], others: Pair[]): Diagnosis | null {
+  const ratios = mismatched.filter((p) => p.numerical !== 0).map((p) => p.analytic / p.numerical);
+  if (ratios.length === 0 || ratios.length < mismatched.length) return null;
+  const ratio = median(ratios);
+  if (!Number.isFinite(ratio) || Math.abs(ratio - 1) < 1e-3) return null;
+  const all = [...mismatched, ...others];
+  if (!all.every((p) => agrees(p.analytic, ratio * p.numerical, p.errorBound, Math.abs(ratio)))) return null;
+  const rounded = roundFactor(ratio);
+  return rounded === -1 ? { kind: 'sign' } : { kind: 'factor', factor: rounded };
+}
+
+/** A permutation π of the mismatched components with analytic_i ≈ numerical_π(i). */
+function findPermutation(mismatched: ComponentCheck[]): Array<[number, number]> | null {
+  if (mismatched.length < 2 || mismatched.length > 8) return null;
+  const candidates = mismatched.map((c) => mismatched.filter((d) => d !== c && agrees(c.analytic, d.numerical, d.errorBound, 1)).map((d) => d.index));
+  const image = new Map<number, number>();
+  const used = new Set<number>();
+  const assign = (k: number): boolean => {
+    if (k === mismatched.length) return true;
+    for (const target of candidates[k]) {
+      if (used.has(target)) continue;
+      used.add(target);
+      image.set(mismatched[k].index, target);
+      if (assign(k + 1)) return true;
+      used.delete(target);
+    }
+    return false;
+  };
+  if (!assign(0)) return null;
+  const pairs: Array<[number, number]> = [];
+  for (const [from, to] of image) {
+    // A swap is reported once; longer cycles as each i → π(i).
+    if (image.get(to) === from && to < from) continue;
+    pairs.push([from, to]);
+  }
+  return pairs;
+}
+
+/**
+ * Diagnosis from component checks. `complete` says every component was checked
+ * (full mode); only then can a sign flip or factor of the whole gradient be claimed.
+ * `decidable` lists components whose error bound allows a verdict.
+ */
+export function diagnoseComponents(components: ComponentCheck[], decidable: number[], complete: boolean): Diagnosis | null {
+  const mismatched = components.filter((c) => c.mismatch);
+  if (mismatched.length === 0) return null;
+  if (complete) {
+    const decidableSet = new Set(decidable);
+    const others = components.filter((c) => !c.mismatch && decidableSet.has(c.index));
+    const ratio = constantRatio(mismatched, others);
+    if (ratio) return ratio;
+  }
+  const pairs = findPermutation(mismatched);
+  if (pairs) return { kind: 'permutation', pairs };
+  return { kind: 'subset', components: mismatched.map((c) => c.index) };
+}
+
+/** Diagnosis from random directions alone: only a whole-gradient sign or factor shows there. */
+export function diagnoseDirections(directions: DirectionalCheck[]): Diagnosis | null {
+  const mismatched = directions.filter((d) => d.mismatch);
+  if (mismatched.length === 0) return null;
+  const others = directions.filter((d) => !d.mismatch && d.errorBound <= 0.1 * Math.max(Math.abs(d.analytic), Math.abs(d.numerical)));
+  return constantRatio(mismatched, others);
+}
+
+export function describeDiagnosis(diagnosis: Diagnosis): string {
+  switch (diagnosis.kind) {
+    case 'sign':
+      return 'the gradient has the opposite sign of the central differences';
+    case 'factor':
+      return `the gradient is ${diagnosis.factor}× the central differences`;
+    case 'permutation':
+      return `components look permuted (analytic i holds the derivative of j): ${diagnosis.pairs.map(([a, b]) => `${a}→${b}`).join(', ')}`;
+    case 'subset':
+      return `${diagnosis.components.length === 1 ? 'component' : 'components'} ${diagnosis.components.join(', ')} ${diagnosis.components.length === 1 ? 'is' : 'are'} wrong`;
+    case 'unknown':
+      return 'the wrong components could not be located';
+  }
+}

@@ -1,0 +1,207 @@
+// The gradient check at one probe: value, gradient, repeatability, noise, then
+// the full or directional comparison, its diagnosis and its findings.
+import { studySteps } from './differences';
+import { describeDiagnosis, diagnoseComponents, diagnoseDirections } from './diagnosis';
+import { checkRandomDirections, localiseWrongComponents, type DirectionalResult } from './directionalCheck';
+import { formatBound, formatList, formatValue } from './format';
+import { checkEveryComponent, type FullCheckResult } from './fullCheck';
+import { estimateNoise } from './noise';
+import { gradientUnitOf, type ProbeContext } from './probeContext';
+import type { Random } from './random';
+import type { CheckOptions, ComponentCheck, Diagnosis, Finding, ProbeReport, StepStudy } from './types';
+import { CheckStopped, makeFinding, type CallSite, type UserCalls } from './userCalls';
+import { offset, offsetComponent } from './vectors';
+
+export interface ProbeOutcome {
+  report: ProbeReport;
+  context: ProbeContext;
+  diagnosis: Diagnosis | null;
+  mismatch: boolean;
+  kink: boolean;
+  /** Nothing at this probe could be decided: every error bound was too wide. */
+  undecided: boolean;
+  /** f(x) differed between two calls at the same point. */
+  unrepeatable: boolean;
+  findings: Finding[];
+  full: FullCheckResult | null;
+  directional: DirectionalResult | null;
+}
+
+/** Shown coordinates of a probe in the report. */
+const shownCoordinates = 64;
+// Group tests allowed for localising wrong components at one probe.
+const localisationBudget = 80;
+
+export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number, options: CheckOptions, noiseRandom: Random, directionRandom: Random, localise: boolean): ProbeOutcome {
+  const site: CallSite = { probeIndex, point: 'the probe' };
+  const value = calls.objective(x, site);
+  if (!Number.isFinite(value)) throw new CheckStopped(makeFinding('non-finite-value', 'objective', `the objective is ${value} at probe ${probeIndex}`, site));
+  const gradient = calls.gradient(x, site);
+  const nonFinite: number[] = [];
+  for (let i = 0; i < gradient.length; i++) if (!Number.isFinite(gradient[i])) nonFinite.push(i);
+  if (nonFinite.length > 0) {
+    const finding = makeFinding('non-finite-value', 'gradient', `the gradient has non-finite values at probe ${probeIndex}: ${nonFinite.slice(0, 8).map((i) => `component ${i} = ${gradient[i]}`).join(', ')}${nonFinite.length > 8 ? ` and ${nonFinite.length - 8} more` : ''}`, site);
+    finding.components = nonFinite;
+    throw new CheckStopped(finding);
+  }
+  const repeated = calls.objective(x, site);
+  const unrepeatable = !(repeated === value);
+  const spread = Number.isFinite(repeated) ? Math.abs(repeated - value) : Math.abs(value);
+  const context: ProbeContext = { calls, probeIndex, x, value, gradient, noise: 0, gradientUnit: gradientUnitOf(gradient) };
+  context.noise = Math.max(noiseNear(context, noiseRandom), spread);
+
+  const outcome: ProbeOutcome = {
+    report: {
+      point: Array.from(x.subarray(0, shownCoordinates)),
+      dimension: x.length,
+      value,
+      mode: x.length <= options.fullCheckMaxDimension ? 'full' : 'directional',
+      components: [],
+      directions: [],
+      noise: value !== 0 ? context.noise / Math.abs(value) : context.noise,
+      maxRelError: 0,
+      stepStudy: null,
+      smoothness: null,
+      descent: [],
+    },
+    context,
+    diagnosis: null,
+    mismatch: false,
+    kink: false,
+    undecided: false,
+    unrepeatable,
+    findings: [],
+    full: null,
+    directional: null,
+  };
+  if (outcome.report.mode === 'full') runFull(outcome);
+  else runDirectional(outcome, options, directionRandom, localise);
+  return outcome;
+}
+
+/** Noise along a seeded ±max(|x_i|, 1) direction (Moré–Wild table). */
+function noiseNear(context: ProbeContext, random: Random): number {
+  const direction = context.x.map((xi) => (random.uniform() < 0.5 ? -1 : 1) * Math.max(Math.abs(xi), 1));
+  const site: CallSite = { probeIndex: context.probeIndex, point: 'a noise-estimation point' };
+  return estimateNoise((t) => context.calls.objective(offset(context.x, t, direction), site), context.value);
+}
+
+function runFull(outcome: ProbeOutcome): void {
+  const full = checkEveryComponent(outcome.context);
+  outcome.full = full;
+  const { report } = outcome;
+  report.components = full.components.map(sanitiseComponent);
+  const decidable = new Set(full.decidable);
+  report.maxRelError = Math.max(0, ...full.components.filter((c) => decidable.has(c.index)).map((c) => c.relError));
+  const mismatched = full.components.filter((c) => c.mismatch);
+  outcome.mismatch = mismatched.length > 0;
+  outcome.kink = full.kinks.length > 0;
+  const size = Math.max(gradientScale(outcome.context), full.slopeScale, ...full.components.map((c) => Math.abs(c.numerical || 0)));
+  outcome.undecided = !outcome.mismatch && !outcome.kink && full.components.every((c) => !(c.errorBound <= 0.1 * size));
+  if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
+  if (!outcome.mismatch) return;
+  outcome.diagnosis = diagnoseComponents(full.components, full.decidable, true);
+  const shape = outcome.diagnosis ? `${describeDiagnosis(outcome.diagnosis)}. ` : '';
+  const finding = makeFinding('gradient-mismatch', 'gradient', `gradient disagrees with central differences at probe ${outcome.context.probeIndex}: ${shape}${describeComponents(mismatched)}`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
+  finding.components = mismatched.map((c) => c.index);
+  outcome.findings.push(finding);
+}
+
+function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Random, localise: boolean): void {
+  const { context, report } = outcome;
+  const directional = checkRandomDirections(context, random, options.directionCount);
+  outcome.directional = directional;
+  report.directions = directional.directions.map((d) => ({ ...d, numerical: finiteOr(d.numerical, 0), errorBound: finiteOr(d.errorBound, Number.MAX_VALUE) }));
+  const size = (d: { analytic: number; numerical: number }) => Math.max(Math.abs(d.analytic), Math.abs(d.numerical));
+  const informative = directional.directions.filter((d) => d.mismatch || d.errorBound <= 0.1 * size(d));
+  report.maxRelError = Math.max(0, ...informative.map((d) => Math.abs(d.analytic - d.numerical) / (size(d) || 1)));
+  const mismatched = directional.directions.filter((d) => d.mismatch);
+  outcome.mismatch = mismatched.length > 0;
+  outcome.kink = directional.kinks > 0;
+  const scale = Math.max(gradientScale(context), directional.slopeScale, ...directional.directions.map((d) => size(d) || 0));
+  outcome.undecided = !outcome.mismatch && !outcome.kink && directional.directions.every((d) => !(d.errorBound <= 0.1 * scale));
+  if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, []));
+  if (!outcome.mismatch) return;
+  const example = mismatched[0];
+  let text = `gradient disagrees with directional central differences at probe ${context.probeIndex} along ${mismatched.length} of ${directional.directions.length} random directions (e.g. ∇f·v = ${formatValue(example.analytic)}, numerical ${formatValue(example.numerical)} ± ${formatBound(example.errorBound)})`;
+  outcome.diagnosis = diagnoseDirections(directional.directions);
+  let components: number[] = [];
+  if (outcome.diagnosis) {
+    text += `: ${describeDiagnosis(outcome.diagnosis)}`;
+  } else if (!localise) {
+    outcome.diagnosis = { kind: 'unknown' };
+    text += ' (wrong components are located at the first failing probe only)';
+  } else {
+    const found = localiseWrongComponents(context, random, localisationBudget);
+    report.components = found.components.map(sanitiseComponent);
+    components = found.components.map((c) => c.index);
+    outcome.diagnosis = diagnoseComponents(found.components, [], false) ?? { kind: 'unknown' };
+    text += `: ${describeDiagnosis(outcome.diagnosis)}`;
+    if (found.components.length > 0) text += `. ${describeComponents(found.components)}`;
+    text += ` (located by ${found.tests} group tests${found.exhausted ? '; the search budget ran out, so more components may be wrong' : ''})`;
+  }
+  const finding = makeFinding('gradient-mismatch', 'gradient', text, { probeIndex: context.probeIndex, point: 'the probe' });
+  if (components.length > 0) finding.components = components;
+  outcome.findings.push(finding);
+}
+
+/**
+ * What counts as a large derivative at this probe: the gradient itself, or
+ * |f|/max(|x_i|, 1); callers add how fast f changes over the first difference
+ * step, so that a tight bound on a zero gradient at a minimum still decides.
+ */
+function gradientScale(context: ProbeContext): number {
+  let largestScale = 1;
+  let largestGradient = 0;
+  for (let i = 0; i < context.x.length; i++) {
+    largestScale = Math.max(largestScale, Math.abs(context.x[i]));
+    largestGradient = Math.max(largestGradient, Math.abs(context.gradient[i]));
+  }
+  return Math.max(largestGradient, Math.abs(context.value) / largestScale);
+}
+
+function describeComponents(components: ComponentCheck[], limit = 4): string {
+  const parts = components.slice(0, limit).map((c) => `component ${c.index}: analytic ${formatValue(c.analytic)}, numerical ${formatValue(c.numerical)} ± ${formatBound(c.errorBound)}`);
+  if (components.length > limit) parts.push(`and ${components.length - limit} more`);
+  return parts.join('; ');
+}
+
+function nonSmoothFinding(outcome: ProbeOutcome, components: number[]): Finding {
+  const where = components.length > 0 ? `along component ${formatList(components)}` : 'along a random direction';
+  const finding = makeFinding('non-smooth-probe', 'objective', `the objective looks non-smooth at probe ${outcome.context.probeIndex} ${where}: forward and backward differences disagree and do not converge as the step shrinks, so the gradient cannot be checked there`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
+  finding.severity = 'info';
+  if (components.length > 0) finding.components = components;
+  return finding;
+}
+
+/** Error of the plain central difference against step size, for the component (or direction) that matters most. */
+export function buildStepStudy(outcome: ProbeOutcome): StepStudy | null {
+  const { context } = outcome;
+  const site: CallSite = { probeIndex: context.probeIndex, point: 'a step-study point' };
+  if (outcome.full) {
+    const candidates = outcome.full.components.filter((c) => Number.isFinite(c.numerical));
+    if (candidates.length === 0) return null;
+    const worst = candidates.reduce((a, b) => (rank(b) > rank(a) ? b : a));
+    const scale = Math.max(Math.abs(context.x[worst.index]), 1);
+    const phi = (t: number) => context.calls.objective(offsetComponent(context.x, worst.index, t), site);
+    const study = studySteps(phi, worst.numerical, 0.1 * scale);
+    return { component: worst.index, ...study, chosenStep: outcome.full.steps[worst.index] };
+  }
+  const first = outcome.directional?.firstDirection;
+  if (!first || !Number.isFinite(first.numerical)) return null;
+  const phi = (t: number) => context.calls.objective(offset(context.x, t, first.direction), site);
+  return { component: -1, ...studySteps(phi, first.numerical, 0.1), chosenStep: first.step };
+}
+
+/** Mismatches first, then by relative error. */
+function rank(c: ComponentCheck): number {
+  return (c.mismatch ? 2 : 0) + Math.min(c.relError, 1);
+}
+
+function sanitiseComponent(c: ComponentCheck): ComponentCheck {
+  return { ...c, numerical: finiteOr(c.numerical, 0), errorBound: finiteOr(c.errorBound, Number.MAX_VALUE) };
+}
+
+function finiteOr(value: number, fallback: number): number {
+  return Number.isFinite(value) ? value : fallback;
+}

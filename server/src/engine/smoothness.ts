@@ -1,0 +1,72 @@
+// Local curvature near a probe: Hessian-vector products by central differences
+// of the gradient, Lanczos for the extreme eigenvalues, and secant slopes.
+import { lanczosExtremes } from './lanczos';
+import type { ProbeContext } from './probeContext';
+import { normalVector, type Random } from './random';
+import type { ProbeReport, SmoothnessEstimate } from './types';
+import type { CallSite } from './userCalls';
+import { allFinite, norm2, offset } from './vectors';
+
+export type ProbeSmoothness = NonNullable<ProbeReport['smoothness']>;
+
+// Secant points sit this far from the probe, relative to max(‖x‖, 1).
+const secantDistance = 1e-3;
+const secantCount = 2;
+
+/**
+ * Hv ≈ (∇f(x + t·v) − ∇f(x − t·v)) / 2t for unit v (Nocedal & Wright 2006, eq. 8.18
+ * in central form). t ~ u^(1/3)·max(‖x‖, 1) balances O(t²) truncation against
+ * roundoff u in the gradient (common practice).
+ */
+export function hessianVectorProduct(context: ProbeContext): (v: Float64Array) => Float64Array | null {
+  const site: CallSite = { probeIndex: context.probeIndex, point: 'a Hessian-vector product point' };
+  const t = Math.cbrt(context.gradientUnit) * Math.max(norm2(context.x), 1);
+  return (v) => {
+    const plus = context.calls.gradient(offset(context.x, t, v), site);
+    const minus = context.calls.gradient(offset(context.x, -t, v), site);
+    if (!allFinite(plus) || !allFinite(minus)) return null;
+    const product = new Float64Array(v.length);
+    for (let i = 0; i < v.length; i++) product[i] = (plus[i] - minus[i]) / (2 * t);
+    return product;
+  };
+}
+
+/** ‖∇f(y) − ∇f(x)‖ / ‖y − x‖ for seeded y near x: a lower bound on the local Lipschitz constant. */
+export function secantSlopes(context: ProbeContext, random: Random): number {
+  const site: CallSite = { probeIndex: context.probeIndex, point: 'a secant point' };
+  const distance = secantDistance * Math.max(norm2(context.x), 1);
+  let largest = 0;
+  for (let k = 0; k < secantCount; k++) {
+    const u = normalVector(random, context.x.length);
+    const length = norm2(u);
+    const gradient = context.calls.gradient(offset(context.x, distance / length, u), site);
+    if (!allFinite(gradient)) continue;
+    let squared = 0;
+    for (let i = 0; i < gradient.length; i++) squared += (gradient[i] - context.gradient[i]) ** 2;
+    largest = Math.max(largest, Math.sqrt(squared) / distance);
+  }
+  return largest;
+}
+
+export function probeSmoothness(context: ProbeContext, random: Random, lanczosSteps: number): ProbeSmoothness | null {
+  const before = context.calls.counts.gradient;
+  const lanczos = lanczosExtremes(hessianVectorProduct(context), normalVector(random, context.x.length), Math.max(1, Math.min(lanczosSteps, context.x.length)));
+  const products = (context.calls.counts.gradient - before) / 2;
+  if (lanczos === null) return null;
+  const secantMax = secantSlopes(context, random);
+  return { lambdaMax: lanczos.lambdaMax, lambdaMin: lanczos.lambdaMin, ritzValues: lanczos.ritzValues, secantMax, hessianVectorProducts: Math.ceil(products) };
+}
+
+/** L̂ = largest of |λmax|, |λmin| and the secant slopes over all probes; μ̂ = smallest λmin. */
+export function combineSmoothness(perProbe: ProbeSmoothness[]): SmoothnessEstimate | null {
+  if (perProbe.length === 0) return null;
+  let lipschitz = 0;
+  let mu = Number.POSITIVE_INFINITY;
+  for (const s of perProbe) {
+    lipschitz = Math.max(lipschitz, Math.abs(s.lambdaMax), Math.abs(s.lambdaMin), s.secantMax);
+    mu = Math.min(mu, s.lambdaMin);
+  }
+  // No curvature at all (e.g. a linear f): no step size follows from it.
+  if (!(lipschitz > 0) || !Number.isFinite(lipschitz)) return null;
+  return { lipschitz, mu, kappa: mu > 0 ? lipschitz / mu : null, safeStep: 1 / lipschitz, divergenceStep: 2 / lipschitz };
+}

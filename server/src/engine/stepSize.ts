@@ -1,0 +1,75 @@
+// Learning-rate verdicts from the local Lipschitz estimate L̂ for gradient
+// descent w ← w − α∇f(w): α ≤ 1/L̂ safe, α ≥ 2/L̂ divergent along the steepest
+// curvature (Nocedal & Wright 2006, §3.3; common practice), confirmed by short runs.
+import { formatValue } from './format';
+import type { DescentRun, Finding, LearningRateVerdict, RateStatus, SmoothnessEstimate } from './types';
+import { CheckStopped, type UserCalls } from './userCalls';
+
+export function rateStatus(rate: number, smoothness: SmoothnessEstimate): RateStatus {
+  if (rate >= smoothness.divergenceStep) return 'divergent';
+  if (rate > smoothness.safeStep) return 'aggressive';
+  return 'safe';
+}
+
+/**
+ * `steps` iterations of gradient descent from `start`, recording f. A run that
+ * leaves the region where f is finite, or where the user's code throws, stops
+ * there and counts as not decreasing: that is what divergence looks like.
+ */
+export function descend(calls: UserCalls, start: Float64Array, startValue: number, rate: number, steps: number, label: DescentRun['label'], probeIndex: number): DescentRun {
+  const site = { probeIndex, point: 'a descent iterate' };
+  const values = [startValue];
+  let x = start;
+  let ended = false;
+  for (let k = 0; k < steps && !ended; k++) {
+    try {
+      const gradient = calls.gradient(x, site);
+      const next = new Float64Array(x.length);
+      for (let i = 0; i < x.length; i++) next[i] = x[i] - rate * gradient[i];
+      const value = calls.objective(next, site);
+      if (!Number.isFinite(value)) ended = true;
+      else {
+        values.push(value);
+        x = next;
+      }
+    } catch (err) {
+      if (!(err instanceof CheckStopped)) throw err;
+      ended = true;
+    }
+  }
+  const decreased = !ended && values[values.length - 1] < startValue;
+  return { label, rate, values, decreased };
+}
+
+export interface RateReview {
+  verdict: LearningRateVerdict;
+  findings: Finding[];
+}
+
+const localNote = 'L̂ is a local estimate from the probes, not a global bound';
+
+export function reviewLearningRate(name: string, rate: number, smoothness: SmoothnessEstimate, declaredRuns: DescentRun[]): RateReview {
+  const status = rateStatus(rate, smoothness);
+  const decreased = declaredRuns.map((run) => run.decreased);
+  const findings: Finding[] = [];
+  const lipschitz = formatValue(smoothness.lipschitz);
+  const bounds = `1/L̂ = ${formatValue(smoothness.safeStep)}, 2/L̂ = ${formatValue(smoothness.divergenceStep)} with L̂ = ${lipschitz} near the probes; ${localNote}`;
+  if (status === 'aggressive') {
+    findings.push({ code: 'rate-aggressive', severity: 'warning', subject: 'learningRate', message: `learning rate ${name} = ${formatValue(rate)} is above the safe step but below the divergence threshold (${bounds})` });
+  } else if (status === 'divergent') {
+    findings.push({ code: 'rate-divergent', severity: 'error', subject: 'learningRate', message: `learning rate ${name} = ${formatValue(rate)} is at or above the divergence threshold: gradient descent is expected to diverge near the probes (${bounds})` });
+  }
+  const runsDecreased = decreased.filter(Boolean).length;
+  const expectsDecrease = status !== 'divergent';
+  const disagreeing = expectsDecrease ? decreased.length - runsDecreased : runsDecreased;
+  if (decreased.length > 0 && disagreeing > 0) {
+    const what = expectsDecrease ? 'did not decrease f' : 'still decreased f';
+    findings.push({
+      code: 'rate-unconfirmed',
+      severity: 'info',
+      subject: 'learningRate',
+      message: `the verdict '${status}' for ${name} = ${formatValue(rate)} is not confirmed: ${disagreeing} of ${decreased.length} short descent runs at that rate ${what} (${bounds})`,
+    });
+  }
+  return { verdict: { name, value: rate, status, decreased }, findings };
+}

@@ -1,0 +1,210 @@
+// Plain data shared by the engine, the sandbox, the CLI and the language server.
+// Nothing here may depend on Node, LSP or VS Code: the engine also runs inside
+// the sandbox's bare `vm` context, where only ECMAScript built-ins exist.
+
+/** A point in parameter space, in the realm and kind the user's code expects. */
+export type Vector = number[] | Float64Array;
+
+/** How a point is handed to the user's functions. */
+export type ArgumentKind = 'array' | 'float64array';
+
+export type Severity = 'error' | 'warning' | 'info';
+
+/** Overall verdict for one objective/gradient pair. */
+export type PairStatus = 'pass' | 'fail' | 'inconclusive' | 'error';
+
+/** Verdict on a declared learning rate against the local Lipschitz estimate. */
+export type RateStatus = 'safe' | 'aggressive' | 'divergent';
+
+/** Tunable budgets of a check. Every field has a default in `defaultCheckOptions`. */
+export interface CheckOptions {
+  /** Seed of every random choice (probes, directions), so runs are repeatable. */
+  seed: number;
+  /** Random probes drawn when the dimension is known but no @probe is given. */
+  probeCount: number;
+  /** Up to this dimension every component is differenced; above it, random directions. */
+  fullCheckMaxDimension: number;
+  /** Random directions tried per probe in the large-dimension check. */
+  directionCount: number;
+  /** Largest Krylov dimension of the Lanczos iteration. */
+  lanczosSteps: number;
+  /** Length of the short gradient-descent runs that confirm a learning-rate verdict. */
+  descentSteps: number;
+}
+
+export const defaultCheckOptions: CheckOptions = {
+  seed: 1,
+  probeCount: 3,
+  fullCheckMaxDimension: 64,
+  directionCount: 6,
+  lanczosSteps: 30,
+  descentSteps: 20,
+};
+
+/** What the sandbox is asked to check for one pair. Built by discovery, serialised as JSON. */
+export interface CheckPlan {
+  /** Exported name of the objective f(x) → number. For a combined pair, the combined function. */
+  objective: string;
+  /** Exported name of the gradient ∇f(x) → vector; null for a combined pair. */
+  gradient: string | null;
+  /** Set when one function returns both: `{ [valueKey]: number, [gradientKey]: vector }`. */
+  combined: { valueKey: string; gradientKey: string } | null;
+  argumentKind: ArgumentKind;
+  /** Literal probe points from `@probe [..]` tags. */
+  probes: number[][];
+  /** Exported consts of the module whose values are probe points (`@probe name`). */
+  probeExports: string[];
+  /** Dimension known from a tuple parameter type, used for seeded random probes. */
+  dimension: number | null;
+  /** Declared learning rate, if any. */
+  learningRate: { name: string; value: number } | null;
+  options: CheckOptions;
+}
+
+/** Stable finding codes. They appear in the CLI, SARIF rules and editor diagnostics. */
+export type FindingCode =
+  | 'gradient-mismatch'
+  | 'gradient-wrong-length'
+  | 'gradient-not-a-vector'
+  | 'non-finite-value'
+  | 'non-smooth-probe'
+  | 'noisy-objective'
+  | 'objective-not-a-number'
+  | 'unrepeatable-objective'
+  | 'input-mutated'
+  | 'async-result'
+  | 'runtime-error'
+  | 'timeout'
+  | 'sandbox-crash'
+  | 'memory-limit'
+  | 'builtin-import'
+  | 'bundle-error'
+  | 'syntax-error'
+  | 'missing-export'
+  | 'unknown-dimension'
+  | 'bad-probe'
+  | 'rate-aggressive'
+  | 'rate-divergent'
+  | 'rate-unconfirmed';
+
+/** Which declaration a finding belongs on in the editor. */
+export type FindingSubject = 'objective' | 'gradient' | 'learningRate' | 'probe';
+
+export interface Finding {
+  code: FindingCode;
+  severity: Severity;
+  message: string;
+  subject: FindingSubject;
+  /** 0-based component indices involved (mismatch, non-finite). */
+  components?: number[];
+  /** Index of the probe the finding was seen at. */
+  probeIndex?: number;
+  /** Raw stack of a user error, as thrown in the sandbox; the host maps it to the user's line. */
+  stack?: string;
+  /** User source location of a runtime error, filled in by the host after source mapping (1-based). */
+  location?: { file: string; line: number; column: number };
+}
+
+/** One component of the full (coordinate-wise) check. */
+export interface ComponentCheck {
+  index: number;
+  analytic: number;
+  numerical: number;
+  /** Bound on |numerical − true derivative| from extrapolation error plus noise. */
+  errorBound: number;
+  /** |analytic − numerical| / max(|analytic|, |numerical|, tiny). */
+  relError: number;
+  mismatch: boolean;
+}
+
+/** One random direction of the large-dimension check. */
+export interface DirectionalCheck {
+  analytic: number;
+  numerical: number;
+  errorBound: number;
+  mismatch: boolean;
+}
+
+/** Numerical-derivative error against step size, for the log–log plot. */
+export interface StepStudy {
+  /** Component index (or -1 for a random direction) the study was made on. */
+  component: number;
+  steps: number[];
+  /** |central difference(h) − best estimate| at each step. */
+  errors: number[];
+  chosenStep: number;
+}
+
+export interface DescentRun {
+  label: 'declared' | 'safe' | 'limit';
+  rate: number;
+  /** f at each iterate, starting with f(probe). */
+  values: number[];
+  decreased: boolean;
+}
+
+export interface ProbeReport {
+  /** The point (first 64 coordinates only, for large dimensions). */
+  point: number[];
+  dimension: number;
+  value: number;
+  mode: 'full' | 'directional';
+  /** Every component in full mode; the localised ones in directional mode. */
+  components: ComponentCheck[];
+  directions: DirectionalCheck[];
+  /** Estimated relative noise level of f near the probe (Moré & Wild). */
+  noise: number;
+  maxRelError: number;
+  stepStudy: StepStudy | null;
+  smoothness: {
+    lambdaMax: number;
+    lambdaMin: number;
+    /** Ritz values of the final Lanczos tridiagonal matrix, ascending. */
+    ritzValues: number[];
+    secantMax: number;
+    hessianVectorProducts: number;
+  } | null;
+  descent: DescentRun[];
+}
+
+export type Diagnosis =
+  | { kind: 'sign' }
+  | { kind: 'factor'; factor: number }
+  | { kind: 'permutation'; pairs: Array<[number, number]> }
+  | { kind: 'subset'; components: number[] }
+  | { kind: 'unknown' };
+
+/** Local smoothness estimates near the probes. Never a global guarantee. */
+export interface SmoothnessEstimate {
+  /** L̂: largest curvature estimate found (Lanczos λ_max or secant). */
+  lipschitz: number;
+  /** μ̂: smallest curvature seen; negative means non-convex near the probes. */
+  mu: number;
+  /** κ̂ = L̂ / μ̂ when μ̂ > 0, else null. */
+  kappa: number | null;
+  /** 1/L̂. */
+  safeStep: number;
+  /** 2/L̂. */
+  divergenceStep: number;
+}
+
+export interface LearningRateVerdict {
+  name: string;
+  value: number;
+  status: RateStatus;
+  /** Per probe: did f go down over the short run at this rate? */
+  decreased: boolean[];
+}
+
+export interface PairReport {
+  status: PairStatus;
+  dimension: number | null;
+  maxRelError: number | null;
+  diagnosis: Diagnosis | null;
+  smoothness: SmoothnessEstimate | null;
+  learningRate: LearningRateVerdict | null;
+  probes: ProbeReport[];
+  findings: Finding[];
+  evaluations: { objective: number; gradient: number };
+  elapsedMs: number;
+}

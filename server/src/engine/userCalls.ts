@@ -1,0 +1,189 @@
+// Every call into the user's objective and gradient goes through here: it counts
+// evaluations, hands over vectors made in the user's realm, copies results out,
+// and turns anything unusual (throws, thenables, wrong shapes, mutation) into findings.
+import type { PairFunctions } from './checkPair';
+import type { Finding, FindingCode, FindingSubject } from './types';
+
+/** Thrown inside the engine to stop a check with a finding; caught by checkPair. */
+export class CheckStopped {
+  constructor(readonly finding: Finding) {}
+}
+
+/** Where a call happens, for messages: probe index and what the point is. */
+export interface CallSite {
+  probeIndex: number;
+  /** e.g. 'the probe', 'a finite-difference point', 'a descent iterate'. */
+  point: string;
+}
+
+export interface UserCalls {
+  readonly dimension: number;
+  readonly counts: { objective: number; gradient: number };
+  /** f(x); may be non-finite (callers decide what that means). */
+  objective(x: Float64Array, site: CallSite): number;
+  /** ∇f(x) copied into plain numbers; checked for length, may hold non-finite values. */
+  gradient(x: Float64Array, site: CallSite): Float64Array;
+  /** Warnings noticed along the way (input mutation), each reported once. */
+  readonly warnings: Finding[];
+}
+
+export function createUserCalls(fns: PairFunctions, dimension: number): UserCalls {
+  const counts = { objective: 0, gradient: 0 };
+  const warnings: Finding[] = [];
+  const mutationSeen = { objective: false, gradient: false };
+
+  function call(which: 'objective' | 'gradient', x: Float64Array, site: CallSite): unknown {
+    let argument: unknown;
+    try {
+      argument = fns.makeVector(x);
+    } catch (err) {
+      throw stop('runtime-error', which, `could not build the argument vector for the ${which} at ${describeSite(site)}: ${describeThrown(err).text}`, site);
+    }
+    counts[which]++;
+    let result: unknown;
+    try {
+      result = which === 'objective' ? fns.objective(argument as Float64Array) : fns.gradient(argument as Float64Array);
+    } catch (err) {
+      const thrown = describeThrown(err);
+      const finding = makeFinding('runtime-error', which, `the ${which} threw at ${describeSite(site)}: ${thrown.text}`, site);
+      if (thrown.stack !== undefined) finding.stack = thrown.stack;
+      throw new CheckStopped(finding);
+    }
+    if (isThenable(result)) {
+      throw stop('async-result', which, `the ${which} returned a promise (or other thenable) at ${describeSite(site)}; it must return its result synchronously`, site);
+    }
+    checkMutation(which, argument, x, site);
+    return result;
+  }
+
+  function checkMutation(which: 'objective' | 'gradient', argument: unknown, original: Float64Array, site: CallSite): void {
+    if (mutationSeen[which]) return;
+    let changed = -1;
+    try {
+      const seen = argument as ArrayLike<unknown>;
+      for (let i = 0; i < original.length; i++) {
+        if (!sameNumber(seen[i], original[i])) {
+          changed = i;
+          break;
+        }
+      }
+    } catch {
+      changed = 0;
+    }
+    if (changed < 0) return;
+    mutationSeen[which] = true;
+    const finding = makeFinding('input-mutated', which, `the ${which} changes its input vector (component ${changed} at ${describeSite(site)}); callers that reuse the point will see a different point`, site);
+    finding.severity = 'warning';
+    finding.components = [changed];
+    warnings.push(finding);
+  }
+
+  return {
+    dimension,
+    counts,
+    warnings,
+    objective(x, site) {
+      const result = call('objective', x, site);
+      if (typeof result !== 'number') {
+        throw stop('objective-not-a-number', 'objective', `the objective returned ${describeKind(result)} instead of a number at ${describeSite(site)}`, site);
+      }
+      return result;
+    },
+    gradient(x, site) {
+      const result = call('gradient', x, site);
+      const values = readNumbers(result, site);
+      if (values.length !== dimension) {
+        throw stop('gradient-wrong-length', 'gradient', `the gradient has ${values.length} components but the point has ${dimension} (at ${describeSite(site)})`, site);
+      }
+      return values;
+    },
+  };
+}
+
+/** Copies an array-like of numbers out of the user's realm. */
+function readNumbers(result: unknown, site: CallSite): Float64Array {
+  const notAVector = () => stop('gradient-not-a-vector', 'gradient', `the gradient returned ${describeKind(result)}, not an array of numbers (at ${describeSite(site)})`, site);
+  if (result === null || typeof result !== 'object') throw notAVector();
+  try {
+    const source = result as ArrayLike<unknown>;
+    const length = source.length;
+    if (typeof length !== 'number' || !Number.isInteger(length) || length < 0 || length > 2 ** 31) throw notAVector();
+    const out = new Float64Array(length);
+    for (let i = 0; i < length; i++) {
+      const value = source[i];
+      if (typeof value !== 'number') throw notAVector();
+      out[i] = value;
+    }
+    return out;
+  } catch (err) {
+    if (err instanceof CheckStopped) throw err;
+    const thrown = describeThrown(err);
+    const finding = makeFinding('runtime-error', 'gradient', `reading the gradient's result threw at ${describeSite(site)}: ${thrown.text}`, site);
+    if (thrown.stack !== undefined) finding.stack = thrown.stack;
+    throw new CheckStopped(finding);
+  }
+}
+
+export function describeSite(site: CallSite): string {
+  return `${site.point} of probe ${site.probeIndex}`;
+}
+
+export function makeFinding(code: FindingCode, subject: FindingSubject, message: string, site?: CallSite): Finding {
+  const finding: Finding = { code, severity: 'error', message, subject };
+  if (site !== undefined && site.probeIndex >= 0) finding.probeIndex = site.probeIndex;
+  return finding;
+}
+
+function stop(code: FindingCode, subject: FindingSubject, message: string, site: CallSite): CheckStopped {
+  return new CheckStopped(makeFinding(code, subject, message, site));
+}
+
+function sameNumber(a: unknown, b: number): boolean {
+  return a === b || (typeof a === 'number' && a !== a && b !== b);
+}
+
+function isThenable(value: unknown): boolean {
+  if (value === null || (typeof value !== 'object' && typeof value !== 'function')) return false;
+  try {
+    return typeof (value as { then?: unknown }).then === 'function';
+  } catch {
+    return false;
+  }
+}
+
+/** Text and stack of anything thrown, without trusting its getters or toString. */
+export function describeThrown(err: unknown): { text: string; stack?: string } {
+  let stack: string | undefined;
+  try {
+    if (err !== null && (typeof err === 'object' || typeof err === 'function')) {
+      const raw = (err as { stack?: unknown }).stack;
+      if (raw !== undefined && raw !== null) stack = String(raw);
+    }
+  } catch {
+    stack = undefined;
+  }
+  let text: string;
+  try {
+    text = String(err);
+  } catch {
+    try {
+      text = Object.prototype.toString.call(err);
+    } catch {
+      text = 'an unprintable value';
+    }
+  }
+  return stack === undefined ? { text } : { text, stack };
+}
+
+function describeKind(value: unknown): string {
+  if (value === null) return 'null';
+  if (value === undefined) return 'undefined';
+  if (typeof value === 'object') {
+    try {
+      return Array.isArray(value) ? 'an array' : 'an object';
+    } catch {
+      return 'an object';
+    }
+  }
+  return `a ${typeof value}`;
+}

@@ -1,0 +1,49 @@
+// Small dense-vector helpers on Float64Array (engine-internal vectors only).
+
+export function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let sum = 0;
+  for (let i = 0; i < a.length; i++) sum += a[i] * b[i];
+  return sum;
+}
+
+export function norm2(a: ArrayLike<number>): number {
+  return Math.sqrt(dot(a, a));
+}
+
+export function normInf(a: ArrayLike<number>): number {
+  let max = 0;
+  for (let i = 0; i < a.length; i++) max = Math.max(max, Math.abs(a[i]));
+  return max;
+}
+
+/** x + t·v as a new vector. */
+export function offset(x: ArrayLike<number>, t: number, v: ArrayLike<number>): Float64Array {
+  const out = new Float64Array(x.length);
+  for (let i = 0; i < x.length; i++) out[i] = x[i] + t * v[i];
+  return out;
+}
+
+/** x with component `index` moved by t. */
+export function offsetComponent(x: Float64Array, index: number, t: number): Float64Array {
+  const out = new Float64Array(x);
+  out[index] += t;
+  return out;
+}
+
+export function scale(a: ArrayLike<number>, factor: number): Float64Array {
+  const out = new Float64Array(a.length);
+  for (let i = 0; i < a.length; i++) out[i] = a[i] * factor;
+  return out;
+}
+
+export function allFinite(a: ArrayLike<number>): boolean {
+  for (let i = 0; i < a.length; i++) if (!Number.isFinite(a[i])) return false;
+  return true;
+}
+
+/** Per-coordinate scale max(|x_i|, 1): steps and directions are relative to it. */
+export function coordinateScales(x: ArrayLike<number>): Float64Array {
+  const out = new Float64Array(x.length);
+  for (let i = 0; i < x.length; i++) out[i] = Math.max(Math.abs(x[i]), 1);
+  return out;
+}

@@ -1,0 +1,118 @@
+// Bundles one document (an unsaved buffer wins over the file on disk) with its
+// relative imports and workspace packages into CommonJS for the sandbox.
+// Imports of Node built-ins are recorded, left external and make the bundle unrunnable.
+import * as esbuild from 'esbuild';
+import { builtinModules } from 'node:module';
+import * as path from 'node:path';
+import type { Finding } from '../engine/types';
+
+export interface BundleError {
+  message: string;
+  file: string;
+  /** 1-based. */
+  line: number;
+  /** 1-based. */
+  column: number;
+}
+
+export interface Bundle {
+  /** CommonJS with an inline source map; empty when there are errors. */
+  code: string;
+  /** Absolute path of the document that was bundled. */
+  fileName: string;
+  /** Directory the source map's relative source paths are resolved against. */
+  sourceRoot: string;
+  /** Every Node built-in the module imports, as written (`fs`, `node:child_process`). */
+  builtinImports: string[];
+  errors: BundleError[];
+}
+
+const builtinNames = new Set(builtinModules);
+
+function isBuiltin(specifier: string): boolean {
+  return specifier.startsWith('node:') || builtinNames.has(specifier);
+}
+
+export async function bundleDocument(text: string, fileName: string): Promise<Bundle> {
+  const absoluteFile = path.resolve(fileName);
+  const sourceRoot = path.dirname(absoluteFile);
+  const builtinImports = new Set<string>();
+  const recordBuiltins: esbuild.Plugin = {
+    name: 'record-builtins',
+    setup(build) {
+      build.onResolve({ filter: /.*/ }, (args) => {
+        if (!isBuiltin(args.path)) return undefined;
+        builtinImports.add(args.path);
+        return { path: args.path, external: true };
+      });
+    },
+  };
+  const base = { code: '', fileName: absoluteFile, sourceRoot };
+  try {
+    const result = await esbuild.build({
+      stdin: { contents: text, sourcefile: path.basename(absoluteFile), resolveDir: sourceRoot, loader: loaderFor(absoluteFile) },
+      absWorkingDir: sourceRoot,
+      bundle: true,
+      format: 'cjs',
+      // The sandbox is a bare ECMAScript realm, not Node: prefer packages' portable entry points.
+      platform: 'neutral',
+      mainFields: ['module', 'main'],
+      target: 'es2022',
+      write: false,
+      sourcemap: 'inline',
+      sourcesContent: false,
+      logLevel: 'silent',
+      plugins: [recordBuiltins],
+    });
+    const code = result.outputFiles?.[0]?.text ?? '';
+    return { ...base, code: builtinImports.size > 0 ? '' : code, builtinImports: [...builtinImports], errors: [] };
+  } catch (error) {
+    const messages = (error as Partial<esbuild.BuildFailure>).errors;
+    if (!Array.isArray(messages)) throw error;
+    return { ...base, builtinImports: [...builtinImports], errors: messages.map((message) => toBundleError(message, sourceRoot, absoluteFile)) };
+  }
+}
+
+function loaderFor(fileName: string): esbuild.Loader {
+  const extension = path.extname(fileName).toLowerCase();
+  if (extension === '.tsx') return 'tsx';
+  if (extension === '.jsx') return 'jsx';
+  if (extension === '.js' || extension === '.mjs' || extension === '.cjs') return 'js';
+  return 'ts';
+}
+
+function toBundleError(message: esbuild.Message, sourceRoot: string, documentFile: string): BundleError {
+  const location = message.location;
+  return {
+    message: message.text,
+    file: location ? path.resolve(sourceRoot, location.file) : documentFile,
+    line: location?.line ?? 1,
+    column: (location?.column ?? 0) + 1,
+  };
+}
+
+/** True when the bundle may be executed in the sandbox. */
+export function isRunnable(bundle: Bundle): boolean {
+  return bundle.errors.length === 0 && bundle.builtinImports.length === 0;
+}
+
+/** Findings explaining why a bundle is not executed; empty when it is runnable. */
+export function unrunnableBundleFindings(bundle: Bundle): Finding[] {
+  const findings: Finding[] = bundle.errors.map((error) => ({
+    code: 'bundle-error',
+    severity: 'error',
+    subject: 'objective',
+    message: `The module could not be bundled: ${error.message}`,
+    location: { file: error.file, line: error.line, column: error.column },
+  }));
+  if (bundle.builtinImports.length > 0) {
+    const names = bundle.builtinImports.map((name) => `'${name}'`).join(', ');
+    findings.push({
+      code: 'builtin-import',
+      severity: 'error',
+      subject: 'objective',
+      message: `The module imports ${bundle.builtinImports.length === 1 ? 'the Node built-in' : 'the Node built-ins'} ${names}; for safety it was not executed. Move the pure math into a module without Node imports.`,
+    });
+  }
+  return findings;
+}

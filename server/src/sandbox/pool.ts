@@ -1,0 +1,260 @@
+// The host side of the sandbox: a few warm, permission-restricted Node processes
+// running dist/sandbox.js, one request per pair at a time. Every run resolves
+// with a report; hangs, crashes, memory exhaustion and cancellation become findings.
+import { fork, type ChildProcess } from 'node:child_process';
+import * as path from 'node:path';
+import type { CheckPlan, Finding, PairReport } from '../engine/types';
+import { isRunnable, unrunnableBundleFindings, type Bundle } from './bundle';
+import type { SandboxReply, SandboxRequest } from './protocol';
+import { cancelledFinding, errorReport, timeoutFinding } from './reports';
+import { locateInUserSource } from './sourceMap';
+
+export interface SandboxPoolOptions {
+  /** Path of the built dist/sandbox.js. */
+  sandboxScript: string;
+  /** Budget of one pair's whole plan, module load included. Default 5000. */
+  timeoutMs?: number;
+  /** V8 old-space limit of each sandbox process. Default 512. */
+  memoryMb?: number;
+  /** Most processes running at once. Default 1. */
+  size?: number;
+}
+
+export interface SandboxResult {
+  report: PairReport;
+  console: string[];
+  consoleTruncated: boolean;
+}
+
+/** Time past the budget before the host stops waiting: covers process start and message passing. */
+const killGraceMs = 1500;
+const stderrTailLength = 4000;
+const outOfMemoryPattern = /heap out of memory|Reached heap limit|Allocation failed/i;
+
+interface Job {
+  id: number;
+  bundle: Bundle;
+  plan: CheckPlan;
+  signal?: AbortSignal;
+  onAbort?: () => void;
+  settled: boolean;
+  resolve(result: SandboxResult): void;
+}
+
+interface Slot {
+  child: ChildProcess;
+  job: Job | null;
+  timer: NodeJS.Timeout | null;
+  stderrTail: string;
+}
+
+/** A handle that can stop keeping the event loop alive (child process, IPC channel, pipe). */
+type Refable = { ref(): void; unref(): void };
+
+export class SandboxPool {
+  private readonly sandboxScript: string;
+  private readonly timeoutMs: number;
+  private readonly memoryMb: number;
+  private readonly size: number;
+  private readonly slots: Slot[] = [];
+  private readonly queue: Job[] = [];
+  private nextId = 1;
+  private disposed = false;
+
+  constructor(options: SandboxPoolOptions) {
+    this.sandboxScript = path.resolve(options.sandboxScript);
+    this.timeoutMs = options.timeoutMs ?? 5000;
+    this.memoryMb = options.memoryMb ?? 512;
+    this.size = Math.max(1, options.size ?? 1);
+  }
+
+  /** Runs one pair's plan on the bundle. Never rejects. */
+  run(bundle: Bundle, plan: CheckPlan, signal?: AbortSignal): Promise<SandboxResult> {
+    if (!isRunnable(bundle)) return Promise.resolve(resultOf(errorReport(unrunnableBundleFindings(bundle))));
+    if (this.disposed || signal?.aborted) return Promise.resolve(resultOf(errorReport([cancelledFinding()])));
+    return new Promise((resolve) => {
+      const job: Job = { id: this.nextId++, bundle, plan, signal, settled: false, resolve };
+      if (signal) {
+        job.onAbort = () => this.cancel(job);
+        signal.addEventListener('abort', job.onAbort, { once: true });
+      }
+      this.queue.push(job);
+      this.dispatch();
+    });
+  }
+
+  /** Stops every process; queued and running checks resolve as cancelled. */
+  dispose(): void {
+    this.disposed = true;
+    for (const job of this.queue.splice(0)) this.settle(job, resultOf(errorReport([cancelledFinding()])));
+    for (const slot of [...this.slots]) {
+      const job = this.retire(slot);
+      if (job) this.settle(job, resultOf(errorReport([cancelledFinding()])));
+    }
+  }
+
+  /** Test hook: ids of the live sandbox processes. */
+  processIds(): number[] {
+    return this.slots.flatMap((slot) => (slot.child.pid === undefined ? [] : [slot.child.pid]));
+  }
+
+  private dispatch(): void {
+    while (this.queue.length > 0 && !this.disposed) {
+      const slot = this.slots.find((candidate) => candidate.job === null) ?? (this.slots.length < this.size ? this.spawn() : null);
+      if (!slot) return;
+      this.start(slot, this.queue.shift()!);
+    }
+  }
+
+  private spawn(): Slot {
+    const child = fork(this.sandboxScript, [], {
+      execArgv: this.sandboxFlags(),
+      // A minimal environment: no NODE_OPTIONS can slip flags in, and no secrets are in reach.
+      env: process.env.SystemRoot ? { SystemRoot: process.env.SystemRoot } : {},
+      cwd: path.dirname(this.sandboxScript),
+      // User output never mixes into ours; stderr is kept for crash diagnosis.
+      stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
+      serialization: 'json',
+    });
+    const slot: Slot = { child, job: null, timer: null, stderrTail: '' };
+    child.stderr?.setEncoding('utf8');
+    child.stderr?.on('data', (text: string) => {
+      slot.stderrTail = (slot.stderrTail + text).slice(-stderrTailLength);
+    });
+    child.on('message', (message: unknown) => this.onReply(slot, message));
+    // 'close' waits for stderr to drain, so an out-of-memory message is seen before judging the exit.
+    child.on('close', (code: number | null, signal: NodeJS.Signals | null) => this.onExit(slot, code, signal));
+    child.on('error', () => {
+      const job = this.retire(slot);
+      if (job) this.settle(job, resultOf(errorReport([this.crashFinding(null, null, slot.stderrTail)])));
+    });
+    this.slots.push(slot);
+    return slot;
+  }
+
+  /** Node's permission model: read only the sandbox script; no writes, child processes or workers. */
+  private sandboxFlags(): string[] {
+    const major = Number(process.versions.node.split('.')[0]);
+    return [
+      major >= 22 ? '--permission' : '--experimental-permission',
+      `--allow-fs-read=${this.sandboxScript}`,
+      '--no-warnings',
+      `--max-old-space-size=${this.memoryMb}`,
+      // vm.Script still compiles our code; this only stops eval and new Function in the host realm.
+      '--disallow-code-generation-from-strings',
+    ];
+  }
+
+  private start(slot: Slot, job: Job): void {
+    slot.job = job;
+    setReferenced(slot, true);
+    slot.timer = setTimeout(() => {
+      this.retire(slot);
+      this.settle(job, resultOf(errorReport([timeoutFinding(this.timeoutMs)], this.timeoutMs)));
+      this.dispatch();
+    }, this.timeoutMs + killGraceMs);
+    const request: SandboxRequest = { id: job.id, code: job.bundle.code, plan: job.plan, timeoutMs: this.timeoutMs };
+    slot.child.send(request, (error) => {
+      if (!error || slot.job !== job) return;
+      this.retire(slot);
+      this.settle(job, resultOf(errorReport([this.crashFinding(null, null, slot.stderrTail)])));
+      this.dispatch();
+    });
+  }
+
+  private onReply(slot: Slot, message: unknown): void {
+    const job = slot.job;
+    if (!job || !isReplyTo(job.id, message)) return;
+    this.release(slot);
+    this.settle(job, { report: withUserLocations(message.report, job.bundle), console: message.console, consoleTruncated: message.consoleTruncated });
+    this.dispatch();
+  }
+
+  private onExit(slot: Slot, code: number | null, signal: NodeJS.Signals | null): void {
+    const job = this.retire(slot);
+    if (job) this.settle(job, resultOf(errorReport([this.crashFinding(code, signal, slot.stderrTail)])));
+    this.dispatch();
+  }
+
+  private cancel(job: Job): void {
+    const queued = this.queue.indexOf(job);
+    if (queued >= 0) this.queue.splice(queued, 1);
+    const running = this.slots.find((slot) => slot.job === job);
+    if (running) this.retire(running);
+    this.settle(job, resultOf(errorReport([cancelledFinding()])));
+    this.dispatch();
+  }
+
+  /** Marks a slot idle after a reply. */
+  private release(slot: Slot): void {
+    if (slot.timer) clearTimeout(slot.timer);
+    slot.timer = null;
+    slot.job = null;
+    setReferenced(slot, false);
+  }
+
+  /** Kills a slot's process and forgets it; returns the job it was running, if any. */
+  private retire(slot: Slot): Job | null {
+    const job = slot.job;
+    this.release(slot);
+    const index = this.slots.indexOf(slot);
+    if (index >= 0) this.slots.splice(index, 1);
+    if (slot.child.exitCode === null && slot.child.signalCode === null) slot.child.kill('SIGKILL');
+    return job;
+  }
+
+  private settle(job: Job, result: SandboxResult): void {
+    if (job.settled) return;
+    job.settled = true;
+    if (job.signal && job.onAbort) job.signal.removeEventListener('abort', job.onAbort);
+    job.resolve(result);
+  }
+
+  private crashFinding(code: number | null, signal: NodeJS.Signals | null, stderrTail: string): Finding {
+    if (outOfMemoryPattern.test(stderrTail)) {
+      return {
+        code: 'memory-limit',
+        severity: 'error',
+        subject: 'objective',
+        message: `The code used more memory than the sandbox allows (${this.memoryMb} MB), so the sandbox was stopped.`,
+      };
+    }
+    const how = signal ? `signal ${signal}` : code === null ? 'an error' : `exit code ${code}`;
+    const lastLine = stderrTail.trim().split('\n').pop()?.trim();
+    return {
+      code: 'sandbox-crash',
+      severity: 'error',
+      subject: 'objective',
+      message: `The sandbox process ended unexpectedly (${how})${lastLine ? `: ${lastLine.slice(0, 300)}` : '.'}`,
+    };
+  }
+}
+
+function resultOf(report: PairReport): SandboxResult {
+  return { report, console: [], consoleTruncated: false };
+}
+
+function isReplyTo(id: number, message: unknown): message is SandboxReply {
+  const reply = message as Partial<SandboxReply> | null;
+  return typeof reply === 'object' && reply !== null && reply.id === id && typeof reply.report === 'object' && reply.report !== null
+    && Array.isArray(reply.report.findings) && Array.isArray(reply.console);
+}
+
+/** Fills `location` of findings that carry a user stack, through the bundle's source map. */
+function withUserLocations(report: PairReport, bundle: Bundle): PairReport {
+  for (const finding of report.findings) {
+    if (!finding.stack || finding.location) continue;
+    const location = locateInUserSource(finding.stack, bundle);
+    if (location) finding.location = location;
+  }
+  return report;
+}
+
+/** An idle pool must not keep the host alive; a busy one must. */
+function setReferenced(slot: Slot, referenced: boolean): void {
+  const handles = [slot.child, slot.child.channel, slot.child.stderr] as Array<Partial<Refable> | null | undefined>;
+  for (const handle of handles) {
+    if (referenced) handle?.ref?.();
+    else handle?.unref?.();
+  }
+}

@@ -1,0 +1,21 @@
+// Messages between the host (server or CLI) and the sandbox process (dist/sandbox.js).
+import type { CheckPlan, PairReport } from '../engine/types';
+
+/** Host → sandbox: check one pair of the bundled module. */
+export interface SandboxRequest {
+  id: number;
+  /** The user's module bundled by esbuild as CommonJS, with an inline source map. */
+  code: string;
+  plan: CheckPlan;
+  /** Budget for the whole plan, module load included. */
+  timeoutMs: number;
+}
+
+/** Sandbox → host: the one result of a request. */
+export interface SandboxReply {
+  id: number;
+  report: PairReport;
+  /** Captured user console output, already truncated. */
+  console: string[];
+  consoleTruncated: boolean;
+}

@@ -1,0 +1,38 @@
+// Reports for checks that ended before the engine could produce one.
+// Pure: used by the host, the sandbox process and the in-context runner alike.
+import type { Finding, PairReport } from '../engine/types';
+
+/** A report with status 'error' carrying the given findings and nothing measured. */
+export function errorReport(findings: Finding[], elapsedMs = 0): PairReport {
+  return {
+    status: 'error',
+    dimension: null,
+    maxRelError: null,
+    diagnosis: null,
+    smoothness: null,
+    learningRate: null,
+    probes: [],
+    findings,
+    evaluations: { objective: 0, gradient: 0 },
+    elapsedMs,
+  };
+}
+
+export function timeoutFinding(timeoutMs: number): Finding {
+  return {
+    code: 'timeout',
+    severity: 'error',
+    subject: 'objective',
+    message: `The check did not finish within ${timeoutMs} ms; the module or one of its functions may loop forever.`,
+  };
+}
+
+/** A cancelled check is not the user's fault, hence 'info'. */
+export function cancelledFinding(): Finding {
+  return { code: 'timeout', severity: 'info', subject: 'objective', message: 'The check was cancelled before it finished.' };
+}
+
+/** Something in our own machinery failed; not the user's code. */
+export function internalFinding(what: string): Finding {
+  return { code: 'sandbox-crash', severity: 'error', subject: 'objective', message: `Internal error in the sandbox: ${what}.` };
+}

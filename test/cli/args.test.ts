@@ -1,0 +1,26 @@
+import assert from 'node:assert/strict';
+import { test } from 'node:test';
+import { parseArguments, UsageError } from '../../server/src/cli/args';
+
+test('defaults: text format, seed 1, 5000 ms', () => {
+  assert.deepEqual(parseArguments(['a.ts']), { format: 'text', seed: 1, timeoutMs: 5000, paths: ['a.ts'] });
+});
+
+test('flags with separate and inline values', () => {
+  assert.deepEqual(parseArguments(['--format', 'sarif', '--seed=7', '--timeout-ms', '250', 'src', 'b.js']), {
+    format: 'sarif',
+    seed: 7,
+    timeoutMs: 250,
+    paths: ['src', 'b.js'],
+  });
+});
+
+test('usage errors say what is wrong', () => {
+  assert.throws(() => parseArguments([]), (e: Error) => e instanceof UsageError && /no files/.test(e.message));
+  assert.throws(() => parseArguments(['--format', 'xml', 'a.ts']), /text, json or sarif/);
+  assert.throws(() => parseArguments(['--seed', '-3', 'a.ts']), /--seed must be a whole number/);
+  assert.throws(() => parseArguments(['--timeout-ms', '0', 'a.ts']), /≥ 1/);
+  assert.throws(() => parseArguments(['--timeout-ms']), /needs a value/);
+  assert.throws(() => parseArguments(['--frobnicate', 'a.ts']), /unknown option --frobnicate/);
+  assert.equal(parseArguments(['--help']), 'help');
+});

@@ -1,0 +1,112 @@
+// Declared learning rates: tags, conventional names, arithmetic values and spans.
+import * as assert from 'node:assert/strict';
+import { test } from 'node:test';
+import { assertSpanCovers, discoverPairs, onlyPair, source } from './support';
+
+const pairSource = [
+  'export function loss(x: [number, number]) { return x[0] ** 2; }',
+  'export function lossGrad(x: [number, number]) { return [2 * x[0], 0]; }',
+];
+const secondPairSource = [
+  'export function cost(x: [number, number]) { return x[1] ** 2; }',
+  'export function costGrad(x: [number, number]) { return [0, 2 * x[1]]; }',
+];
+
+test('each conventional name is used when the file has exactly one pair', () => {
+  for (const name of ['learningRate', 'lr', 'stepSize', 'alpha', 'eta']) {
+    const text = source(...pairSource, `export const ${name} = 0.05;`);
+    const pair = onlyPair(discoverPairs(text, 'model.ts'));
+    assert.deepEqual(pair.plan.learningRate, { name, value: 0.05 }, name);
+    assert.equal(pair.learningRate?.name, name);
+  }
+});
+
+test('other names, unexported consts and non-numeric consts are not learning rates', () => {
+  for (const line of [
+    'export const rate = 0.05;',
+    'const lr = 0.05;',
+    "export const lr = 'fast';",
+    'export const lr = [0.1];',
+    'export const lr = Math.PI / 100;',
+    'export const lr = -0.1;',
+    'export const lr = 0;',
+    'export let lr = 0.1;',
+  ]) {
+    const pair = onlyPair(discoverPairs(source(...pairSource, line), 'model.ts'));
+    assert.equal(pair.plan.learningRate, null, line);
+    assert.equal(pair.learningRate, null, line);
+  }
+});
+
+test('with two pairs a conventional name alone is ambiguous and not used', () => {
+  const result = discoverPairs(source(...pairSource, ...secondPairSource, 'export const lr = 0.1;'), 'model.ts');
+  assert.equal(result.pairs.length, 2);
+  assert.ok(result.pairs.every((pair) => pair.plan.learningRate === null));
+});
+
+test('@learningRateFor assigns a rate of any name to its pair', () => {
+  const text = source(
+    ...pairSource,
+    ...secondPairSource,
+    '/** @learningRateFor cost */',
+    'export const costStep = 0.25;',
+    '/** @learningRateFor loss */',
+    'export const lr = 0.125;',
+  );
+  const result = discoverPairs(text, 'model.ts');
+  assert.deepEqual(
+    result.pairs.map((pair) => [pair.plan.objective, pair.plan.learningRate]),
+    [
+      ['loss', { name: 'lr', value: 0.125 }],
+      ['cost', { name: 'costStep', value: 0.25 }],
+    ],
+  );
+});
+
+test('a tagged rate wins over a conventional name', () => {
+  const text = source(...pairSource, 'export const lr = 0.5;', '/** @learningRateFor loss */', 'export const chosen = 0.01;');
+  assert.deepEqual(onlyPair(discoverPairs(text, 'model.ts')).plan.learningRate, { name: 'chosen', value: 0.01 });
+});
+
+test('@learningRateFor naming no pair is reported at the tag', () => {
+  const text = source(...pairSource, '/** @learningRateFor lossTypo */', 'export const lr = 0.5;');
+  const result = discoverPairs(text, 'model.ts');
+  assert.equal(onlyPair(result).plan.learningRate, null);
+  assert.equal(result.fileFindings.length, 1);
+  assert.equal(result.fileFindings[0].subject, 'learningRate');
+  assertSpanCovers(text, result.fileFindings[0].span, '@learningRateFor lossTypo');
+});
+
+test('arithmetic of literals is evaluated from the syntax tree', () => {
+  // Expected values are the same expressions evaluated by JavaScript itself.
+  const cases: Array<[string, number]> = [
+    ['1 / 200', 1 / 200],
+    ['2e-3 * 0.5', 2e-3 * 0.5],
+    ['-(-0.1)', 0.1],
+    ['(1 + 1) / (4 * 10)', (1 + 1) / (4 * 10)],
+    ['10 ** -3', 10 ** -3],
+    ['0.3 - 0.1', 0.3 - 0.1],
+    ['1_000 / 1e5', 1_000 / 1e5],
+    ['0x10 / 256', 0x10 / 256],
+    ['+0.02', 0.02],
+    ['0.01 as const', 0.01],
+  ];
+  for (const [expression, expected] of cases) {
+    const pair = onlyPair(discoverPairs(source(...pairSource, `export const lr = ${expression};`), 'model.ts'));
+    assert.equal(pair.plan.learningRate?.value, expected, expression);
+  }
+});
+
+test('name, value and declaration spans of a learning rate', () => {
+  const text = source(...pairSource, '', '/** Step size. */', 'export const stepSize = 1 / 200;');
+  const rate = onlyPair(discoverPairs(text, 'model.ts')).learningRate;
+  assert.ok(rate);
+  assertSpanCovers(text, rate.nameSpan, 'stepSize');
+  assertSpanCovers(text, rate.valueSpan, '1 / 200');
+  assertSpanCovers(text, rate.declarationSpan, 'export const stepSize = 1 / 200;');
+});
+
+test('a rate exported through export { } counts', () => {
+  const text = source(...pairSource, 'const lr = 0.02;', 'export { lr };');
+  assert.deepEqual(onlyPair(discoverPairs(text, 'model.ts')).plan.learningRate, { name: 'lr', value: 0.02 });
+});

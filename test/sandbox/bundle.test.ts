@@ -1,0 +1,117 @@
+// Bundling of user documents: relative imports, unsaved buffers, built-in imports, errors.
+import assert from 'node:assert/strict';
+import { after, describe, test } from 'node:test';
+import * as path from 'node:path';
+import * as vm from 'node:vm';
+import { isRunnable, unrunnableBundleFindings } from '../../server/src/sandbox/bundle';
+import { bundleScriptName, locateInUserSource } from '../../server/src/sandbox/sourceMap';
+import { lineOf, tempProject } from './support';
+
+const project = tempProject();
+after(() => project.remove());
+
+const libText = ['export function square(x: number): number {', '  return x * x;', '}', 'export function fail(): never {', "  throw new Error('from lib');", '}', ''].join('\n');
+project.write('lib.ts', libText);
+// On disk the main file says something else: the open buffer must win.
+project.write('main.ts', "export const version = 'on disk';\n");
+
+const mainText = [
+  "import { square, fail } from './lib';",
+  "export const version = 'unsaved';",
+  'export function objective(x: number[]): number {',
+  '  return square(x[0]) + square(x[1]);',
+  '}',
+  'export function broken(): number {',
+  "  throw new Error('from main'); // THROW",
+  '}',
+  'export function brokenInLib(): number {',
+  '  return fail();',
+  '}',
+  '',
+].join('\n');
+
+/** Evaluates a bundle the way the sandbox does: wrapper on its own line, same script name. */
+function load(code: string): Record<string, (...args: number[][]) => unknown> {
+  const module = { exports: {} };
+  const factory = vm.runInNewContext(`(function (exports, module, require) {\n${code}\n})`, {}, { filename: bundleScriptName, lineOffset: -1 });
+  factory(module.exports, module, () => {
+    throw new Error('no require');
+  });
+  return module.exports as Record<string, (...args: number[][]) => unknown>;
+}
+
+function stackOf(run: () => unknown): string {
+  try {
+    run();
+  } catch (error) {
+    return (error as Error).stack ?? '';
+  }
+  throw new Error('expected a throw');
+}
+
+describe('bundleDocument', () => {
+  test('bundles a relative import and uses the unsaved text over the file on disk', async () => {
+    const bundle = await project.bundle(mainText);
+    assert.deepEqual(bundle.errors, []);
+    assert.deepEqual(bundle.builtinImports, []);
+    assert.ok(isRunnable(bundle));
+    const exports = load(bundle.code);
+    assert.equal(exports.version, 'unsaved');
+    // 3² + 4² = 25: the imported helper really ran.
+    assert.equal(exports.objective([3, 4]), 25);
+  });
+
+  test('maps a stack frame back to the throwing line of the document and of an imported file', async () => {
+    const bundle = await project.bundle(mainText);
+    const exports = load(bundle.code);
+    const inMain = locateInUserSource(stackOf(() => exports.broken()), bundle);
+    assert.deepEqual(inMain && { file: inMain.file, line: inMain.line }, { file: path.join(project.dir, 'main.ts'), line: lineOf(mainText, '// THROW') });
+    const inLib = locateInUserSource(stackOf(() => exports.brokenInLib()), bundle);
+    assert.deepEqual(inLib && { file: inLib.file, line: inLib.line }, { file: path.join(project.dir, 'lib.ts'), line: lineOf(libText, 'from lib') });
+  });
+
+  test('a stack without frames of the bundle maps to nothing', async () => {
+    const bundle = await project.bundle(mainText);
+    assert.equal(locateInUserSource('Error: x\n    at run (slopecheck-runner.js:10:5)', bundle), null);
+  });
+
+  test('lists Node built-in imports, keeps no code to run, and explains why', async () => {
+    const text = "import fs from 'fs';\nimport { execSync } from 'node:child_process';\nexport const f = () => { fs.writeFileSync('x', ''); execSync('true'); };\n";
+    const bundle = await project.bundle(text);
+    assert.deepEqual([...bundle.builtinImports].sort(), ['fs', 'node:child_process']);
+    assert.equal(bundle.code, '');
+    assert.equal(isRunnable(bundle), false);
+    const findings = unrunnableBundleFindings(bundle);
+    assert.equal(findings.length, 1);
+    assert.equal(findings[0].code, 'builtin-import');
+    assert.equal(findings[0].severity, 'error');
+    assert.equal(findings[0].subject, 'objective');
+    assert.match(findings[0].message, /'fs'/);
+    assert.match(findings[0].message, /'node:child_process'/);
+    assert.match(findings[0].message, /not executed/);
+  });
+
+  test('a built-in imported by an imported file is caught too', async () => {
+    project.write('usesPath.ts', "import { join } from 'path';\nexport const joined = join('a', 'b');\n");
+    const bundle = await project.bundle("export { joined } from './usesPath';\n");
+    assert.deepEqual(bundle.builtinImports, ['path']);
+  });
+
+  test('reports a syntax error with its place instead of throwing', async () => {
+    const text = 'export function objective(x: number[]) {\n  return x[0] +;\n}\n';
+    const bundle = await project.bundle(text);
+    assert.equal(bundle.errors.length, 1);
+    assert.equal(bundle.errors[0].file, path.join(project.dir, 'main.ts'));
+    assert.equal(bundle.errors[0].line, 2);
+    const findings = unrunnableBundleFindings(bundle);
+    assert.equal(findings[0].code, 'bundle-error');
+    assert.equal(findings[0].location?.line, 2);
+  });
+
+  test('reports an import that cannot be resolved', async () => {
+    const bundle = await project.bundle("import { gone } from './doesNotExist';\nexport const f = gone;\n");
+    assert.equal(bundle.errors.length, 1);
+    assert.match(bundle.errors[0].message, /doesNotExist/);
+    assert.equal(isRunnable(bundle), false);
+  });
+});

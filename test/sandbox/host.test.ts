@@ -1,0 +1,110 @@
+// The host's guard rails, tested with stand-in sandbox scripts that misbehave
+// in the process itself (past the vm layer): the permission model must still
+// hold, and the pool must survive silence and sudden exits.
+import assert from 'node:assert/strict';
+import { existsSync } from 'node:fs';
+import * as path from 'node:path';
+import { after, describe, test } from 'node:test';
+import { SandboxPool } from '../../server/src/sandbox/pool';
+import { roundTripPlan, tempProject } from './support';
+
+const project = tempProject();
+after(() => project.remove());
+
+/** A stand-in sandbox script: `onRequest` is the body of a message handler with `request` in scope. */
+function standIn(name: string, onRequest: string): string {
+  return project.write(name, `process.on('message', (request) => {\n${onRequest}\n});\n`);
+}
+
+/** Stand-in reply carrying `lines` as console output. */
+const replyWith = (lines: string) =>
+  `process.send({ id: request.id, report: { status: 'pass', findings: [] }, console: ${lines}, consoleTruncated: false });`;
+
+async function runOn(pool: SandboxPool) {
+  return pool.run(await project.bundle('exports.value = 1;\n', 'main.js'), roundTripPlan);
+}
+
+describe('sandbox host', () => {
+  test('the sandbox process may not write files, read other files, or start processes or threads', async () => {
+    const canary = path.join(project.dir, 'host-canary.txt');
+    const script = standIn(
+      'escaped.js',
+      `const outcomes = [];
+const attempt = (name, run) => {
+  try { run(); outcomes.push(name + ': allowed'); } catch (error) { outcomes.push(name + ': ' + error.code); }
+};
+attempt('write', () => require('fs').writeFileSync(${JSON.stringify(canary)}, 'written'));
+attempt('read', () => require('fs').readFileSync(${JSON.stringify(path.join(project.dir, 'main.js'))}));
+attempt('spawn', () => require('child_process').spawnSync(process.execPath, ['-e', '0']));
+attempt('thread', () => new (require('worker_threads').Worker)('0', { eval: true }));
+attempt('eval', () => new Function('return 1')());
+${replyWith('outcomes')}`,
+    );
+    project.write('main.js', 'exports.value = 1;\n');
+    const pool = new SandboxPool({ sandboxScript: script });
+    try {
+      const result = await runOn(pool);
+      assert.deepEqual(result.console.slice(0, 4), ['write: ERR_ACCESS_DENIED', 'read: ERR_ACCESS_DENIED', 'spawn: ERR_ACCESS_DENIED', 'thread: ERR_ACCESS_DENIED']);
+      // --disallow-code-generation-from-strings: an EvalError has no code.
+      assert.equal(result.console[4], 'eval: undefined');
+      assert.equal(existsSync(canary), false);
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  test('a process that never answers is killed after the budget, and the next request gets a fresh one', async () => {
+    const script = standIn('silent.js', 'if (request.code.includes("answer")) { ' + replyWith("['answered']") + ' }');
+    const pool = new SandboxPool({ sandboxScript: script, timeoutMs: 200 });
+    try {
+      const silent = await runOn(pool);
+      assert.deepEqual(silent.report.findings.map((f) => [f.code, f.severity]), [['timeout', 'error']]);
+      assert.deepEqual(pool.processIds(), []);
+      const answered = await pool.run(await project.bundle("exports.answer = 1;\n", 'main.js'), roundTripPlan);
+      assert.deepEqual(answered.console, ['answered']);
+      assert.equal(pool.processIds().length, 1);
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  test('a process that dies mid-request gives sandbox-crash with its last words', async () => {
+    const script = standIn('dying.js', "process.stderr.write('something broke inside\\n');\nprocess.exit(7);");
+    const pool = new SandboxPool({ sandboxScript: script });
+    try {
+      const { report } = await runOn(pool);
+      assert.equal(report.status, 'error');
+      assert.equal(report.findings[0].code, 'sandbox-crash');
+      assert.match(report.findings[0].message, /exit code 7/);
+      assert.match(report.findings[0].message, /something broke inside/);
+      // No restart loop: nothing runs until the next request asks for it.
+      assert.deepEqual(pool.processIds(), []);
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  test('an out-of-memory death is told apart from other crashes', async () => {
+    const script = standIn('oom.js', "process.stderr.write('FATAL ERROR: Reached heap limit Allocation failed - JavaScript heap out of memory\\n');\nprocess.exit(134);");
+    const pool = new SandboxPool({ sandboxScript: script, memoryMb: 64 });
+    try {
+      const { report } = await runOn(pool);
+      assert.equal(report.findings[0].code, 'memory-limit');
+      assert.match(report.findings[0].message, /64 MB/);
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  test('replies to another request id are ignored', async () => {
+    const script = standIn('forger.js', "process.send({ id: request.id + 1, report: { status: 'pass', findings: [] }, console: ['forged'], consoleTruncated: false });");
+    const pool = new SandboxPool({ sandboxScript: script, timeoutMs: 100 });
+    try {
+      const { report, console: lines } = await runOn(pool);
+      assert.deepEqual(lines, []);
+      assert.equal(report.findings[0].code, 'timeout');
+    } finally {
+      pool.dispose();
+    }
+  });
+});

@@ -1,0 +1,70 @@
+// Shared helpers of the sandbox tests: user modules written to a temp dir, plans, pools.
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import * as path from 'node:path';
+import { defaultCheckOptions, type CheckPlan } from '../../server/src/engine/types';
+import { bundleDocument, type Bundle } from '../../server/src/sandbox/bundle';
+
+export interface TempProject {
+  dir: string;
+  /** Writes a file of the project and returns its absolute path. */
+  write(name: string, text: string): string;
+  /** Bundles `text` as the (possibly unsaved) document `name` of the project. */
+  bundle(text: string, name?: string): Promise<Bundle>;
+  remove(): void;
+}
+
+export function tempProject(): TempProject {
+  const dir = mkdtempSync(path.join(tmpdir(), 'slopecheck-sandbox-'));
+  return {
+    dir,
+    write(name, text) {
+      const file = path.join(dir, name);
+      writeFileSync(file, text);
+      return file;
+    },
+    bundle(text, name = 'main.ts') {
+      return bundleDocument(text, path.join(dir, name));
+    },
+    remove() {
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+export function planFor(overrides: Partial<CheckPlan> = {}): CheckPlan {
+  return {
+    objective: 'objective',
+    gradient: 'gradient',
+    combined: null,
+    argumentKind: 'array',
+    probes: [[1, 2]],
+    probeExports: [],
+    dimension: 2,
+    learningRate: null,
+    options: defaultCheckOptions,
+    ...overrides,
+  };
+}
+
+/**
+ * A plan naming an export no module has: the runner answers 'missing-export'
+ * without calling the engine, which proves a full round trip through the sandbox.
+ */
+export const roundTripPlan = planFor({ objective: 'notExportedAnywhere' });
+
+/** 1-based line of the first line of `text` containing `marker`. */
+export function lineOf(text: string, marker: string): number {
+  const index = text.split('\n').findIndex((line) => line.includes(marker));
+  if (index < 0) throw new Error(`marker ${marker} not found`);
+  return index + 1;
+}
+
+/** Resolves once `condition` holds, polling on the event loop; rejects after `timeoutMs`. */
+export async function waitFor(condition: () => boolean, timeoutMs = 5000): Promise<void> {
+  const started = Date.now();
+  while (!condition()) {
+    if (Date.now() - started > timeoutMs) throw new Error('condition not reached in time');
+    await new Promise((resolve) => setImmediate(resolve));
+  }
+}
