@@ -89,12 +89,15 @@ describe('bundleDocument', () => {
     assert.match(findings[0].message, /'fs'/);
     assert.match(findings[0].message, /'node:child_process'/);
     assert.match(findings[0].message, /not executed/);
+    assert.deepEqual(bundle.builtinImportSites.map((site) => [site.message, site.line]).sort(), [['fs', 1], ['node:child_process', 2]]);
+    assert.equal(findings[0].location?.line, 1, 'the finding points at the first built-in import');
   });
 
   test('a built-in imported by an imported file is caught too', async () => {
     project.write('usesPath.ts', "import { join } from 'path';\nexport const joined = join('a', 'b');\n");
     const bundle = await project.bundle("export { joined } from './usesPath';\n");
     assert.deepEqual(bundle.builtinImports, ['path']);
+    assert.deepEqual(bundle.builtinImportSites.map((site) => [path.basename(site.file), site.line]), [['usesPath.ts', 1]]);
   });
 
   test('reports a syntax error with its place instead of throwing', async () => {

@@ -24,8 +24,13 @@ export interface Bundle {
   sourceRoot: string;
   /** Every Node built-in the module imports, as written (`fs`, `node:child_process`). */
   builtinImports: string[];
+  /** Where each built-in import is (message = the module name). */
+  builtinImportSites: BundleError[];
   errors: BundleError[];
 }
+
+/** Marks the resolve errors our plugin raises for built-ins, so esbuild reports where each import is. */
+const builtinMarker = 'slopecheck-builtin:';
 
 const builtinNames = new Set(builtinModules);
 
@@ -43,7 +48,7 @@ export async function bundleDocument(text: string, fileName: string): Promise<Bu
       build.onResolve({ filter: /.*/ }, (args) => {
         if (!isBuiltin(args.path)) return undefined;
         builtinImports.add(args.path);
-        return { path: args.path, external: true };
+        return { errors: [{ text: builtinMarker + args.path }] };
       });
     },
   };
@@ -65,11 +70,20 @@ export async function bundleDocument(text: string, fileName: string): Promise<Bu
       plugins: [recordBuiltins],
     });
     const code = result.outputFiles?.[0]?.text ?? '';
-    return { ...base, code: builtinImports.size > 0 ? '' : code, builtinImports: [...builtinImports], errors: [] };
+    return { ...base, code, builtinImports: [], builtinImportSites: [], errors: [] };
   } catch (error) {
     const messages = (error as Partial<esbuild.BuildFailure>).errors;
     if (!Array.isArray(messages)) throw error;
-    return { ...base, builtinImports: [...builtinImports], errors: messages.map((message) => toBundleError(message, sourceRoot, absoluteFile)) };
+    const located = messages.map((message) => toBundleError(message, sourceRoot, absoluteFile));
+    const builtinImportSites = located
+      .filter((site) => site.message.startsWith(builtinMarker))
+      .map((site) => ({ ...site, message: site.message.slice(builtinMarker.length) }));
+    return {
+      ...base,
+      builtinImports: [...builtinImports],
+      builtinImportSites,
+      errors: located.filter((e) => !e.message.startsWith(builtinMarker)),
+    };
   }
 }
 
@@ -103,7 +117,7 @@ export function unrunnableBundleFindings(bundle: Bundle): Finding[] {
     severity: 'error',
     subject: 'objective',
     message: `The module could not be bundled: ${error.message}`,
-    location: { file: error.file, line: error.line, column: error.column },
+    location: locationOf(error),
   }));
   if (bundle.builtinImports.length > 0) {
     const names = bundle.builtinImports.map((name) => `'${name}'`).join(', ');
@@ -112,7 +126,12 @@ export function unrunnableBundleFindings(bundle: Bundle): Finding[] {
       severity: 'error',
       subject: 'objective',
       message: `The module imports ${bundle.builtinImports.length === 1 ? 'the Node built-in' : 'the Node built-ins'} ${names}; for safety it was not executed. Move the pure math into a module without Node imports.`,
+      ...(bundle.builtinImportSites[0] ? { location: locationOf(bundle.builtinImportSites[0]) } : {}),
     });
   }
   return findings;
+}
+
+function locationOf(site: BundleError): NonNullable<Finding['location']> {
+  return { file: site.file, line: site.line, column: site.column };
 }

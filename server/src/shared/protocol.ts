@@ -1,0 +1,59 @@
+// The custom LSP messages between the VS Code client and the Slopecheck server.
+// Both sides import this file; every method shares the `slopecheck/` prefix.
+import type { DocumentCheckSummary } from './summary';
+import type { PairReport } from '../engine/types';
+
+/** Sent by the client as `initializationOptions`. */
+export interface InitializationOptions {
+  /** Workspace trust; a client that sends nothing is treated as trusted. */
+  trusted?: boolean;
+}
+
+export const methods = {
+  /** client → server (notification): workspace trust changed. */
+  setTrust: 'slopecheck/setTrust',
+  /** client → server (request): the full report of one pair, for the report view. */
+  pairReport: 'slopecheck/pairReport',
+  /** client → server (request): the pairs of a document, for a quick pick. */
+  listPairs: 'slopecheck/listPairs',
+  /** client → server (request): check a document again now, ignoring the cache. */
+  checkAgain: 'slopecheck/checkAgain',
+  /** server → client (notification): a document's summary changed, for the status bar. */
+  documentSummary: 'slopecheck/documentSummary',
+} as const;
+
+export interface SetTrustParams {
+  trusted: boolean;
+}
+
+export interface DocumentParams {
+  uri: string;
+}
+
+export interface PairReportParams {
+  uri: string;
+  /** The objective's name, as listed by `listPairs`. */
+  objective: string;
+}
+
+export interface PairListing {
+  objective: string;
+  gradient: string | null;
+  /** 0-based line of the objective's name. */
+  line: number;
+  status: PairReport['status'] | 'pending';
+}
+
+export interface PairReportResult {
+  uri: string;
+  objective: string;
+  gradient: string | null;
+  line: number;
+  report: PairReport;
+  /** The user's console output during the check. */
+  console: string[];
+  /** Settings the check ran with, for reproducing it. */
+  settings: { seed: number; timeoutMs: number; probeCount: number };
+}
+
+export type DocumentSummaryParams = DocumentCheckSummary & { uri: string };
