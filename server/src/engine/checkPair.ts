@@ -4,7 +4,7 @@ import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
 import { createRandom } from './random';
 import { combineSmoothness, probeSmoothness, type ProbeSmoothness } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
-import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type Vector } from './types';
+import { defaultCheckOptions, type CheckOptions, type CheckPlan, type PairReport, type Vector } from './types';
 import { CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
 
 /** The user's functions as the engine sees them; the sandbox builds these. */
@@ -116,7 +116,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
       severity: 'warning',
       subject: 'objective',
       probeIndex: unrepeatable[0].context.probeIndex,
-      message: `the objective returns different values for the same point (probe ${unrepeatable[0].context.probeIndex}: ${unrepeatable[0].report.value} then another value); randomness or hidden state makes differences unreliable`,
+      message: `the objective returns different values for the same point (probe ${unrepeatable[0].context.probeIndex}: ${unrepeatable[0].report.value}, then ${unrepeatable[0].repeatedValue}); randomness or hidden state makes finite differences unreliable`,
     });
   }
   const undecided = outcomes.filter((o) => o.undecided);
@@ -172,4 +172,3 @@ function readClock(clock: () => number): number {
   }
 }
 
-export type { Finding };

@@ -13,6 +13,11 @@ export interface DerivativeEstimate {
   kink: boolean;
   /** max |φ(±h) − φ(0)| / h at the first step: how fast φ changes at the resolution of the check. */
   slopeScale: number;
+  /**
+   * The steps resolve φ: its second differences shrink with h as they must for a
+   * smooth function (or sit at noise level). Unresolved slices never count as mismatches.
+   */
+  resolved: boolean;
 }
 
 export interface DifferenceSettings {
@@ -66,15 +71,24 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     plus = phi(firstStep);
     minus = phi(-firstStep);
   }
-  if (!(Number.isFinite(plus) && Number.isFinite(minus))) return { value: Number.NaN, errorBound: Number.POSITIVE_INFINITY, step: firstStep, kink: false, slopeScale: 0 };
+  if (!(Number.isFinite(plus) && Number.isFinite(minus))) return { value: Number.NaN, errorBound: Number.POSITIVE_INFINITY, step: firstStep, kink: false, slopeScale: 0, resolved: false };
 
   const slopeScale = Math.max(Math.abs(plus - phi0), Math.abs(minus - phi0)) / firstStep;
+  // Noise relative to f grows where |φ(±h)| ≫ |φ(0)|; rounding alone is at least 2^-52·|φ(±h)|.
+  const noiseAt = (a: number, b: number) => {
+    const size = Math.max(Math.abs(a), Math.abs(b));
+    const relativeGrowth = phi0 !== 0 ? Math.max(1, size / Math.abs(phi0)) : 1;
+    return Math.max(noise * relativeGrowth, 2 ** -52 * size);
+  };
   const rows: number[][] = [[(plus - minus) / (2 * firstStep)]];
   const steps = [firstStep];
   const gaps = [Math.abs(plus + minus - 2 * phi0)];
   let best = rows[0][0];
   let bestError = Number.POSITIVE_INFINITY;
   let bestStep = firstStep;
+  // Largest noise among the rows the best entry combines.
+  let levelNoise = noiseAt(plus, minus);
+  let bestNoise = levelNoise;
   for (let i = 1; i < settings.maxLevels; i++) {
     const h = steps[i - 1] / 2;
     plus = phi(h);
@@ -82,6 +96,8 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     if (!(Number.isFinite(plus) && Number.isFinite(minus))) break;
     steps.push(h);
     gaps.push(Math.abs(plus + minus - 2 * phi0));
+    const previousNoise = levelNoise;
+    levelNoise = noiseAt(plus, minus);
     const row = [(plus - minus) / (2 * h)];
     for (let j = 1; j <= i; j++) {
       row.push(richardson(rows[i - 1][j - 1], row[j - 1], 2 * j));
@@ -90,6 +106,7 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
         bestError = error;
         best = row[j];
         bestStep = h;
+        bestNoise = Math.max(levelNoise, previousNoise);
       }
     }
     rows.push(row);
@@ -97,11 +114,42 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     const diagonalChange = Math.abs(row[i] - rows[i - 1][i - 1]);
     if (diagonalChange >= growthStop * bestError) break;
     // Smaller steps would only add noise once it dominates the truncation error.
-    if (noiseMultiplier * noise / h > bestError) break;
+    if (noiseMultiplier * levelNoise / h > bestError) break;
   }
-  const errorBound = estimateMargin * bestError + noiseMultiplier * noise / bestStep;
-  const kink = looksKinked(phi, phi0, steps, gaps, noise);
-  return { value: best, errorBound, step: bestStep, kink, slopeScale };
+  const errorBound = estimateMargin * bestError + noiseMultiplier * bestNoise / bestStep;
+  const resolved = isResolved(steps, gaps, noise);
+  const kink = !resolved && looksKinked(phi, phi0, steps, gaps, noise);
+  return { value: best, errorBound, step: bestStep, kink, slopeScale, resolved };
+}
+
+/**
+ * A second estimate from an unrelated step sequence (h0/3, h0/6, …). Where the
+ * two disagree beyond their bounds, neither is trusted and the bound widens to
+ * cover both: a lucky agreement inside one tableau must not raise a false alarm.
+ */
+export function confirmDerivative(phi: (t: number) => number, phi0: number, first: DerivativeEstimate, h0: number, settings: DifferenceSettings): DerivativeEstimate {
+  const second = differentiate(phi, phi0, h0 / 3, settings);
+  if (!Number.isFinite(second.value)) return { ...first, errorBound: Number.POSITIVE_INFINITY };
+  const gap = Math.abs(first.value - second.value);
+  const kink = first.kink || second.kink;
+  const resolved = first.resolved && second.resolved;
+  if (gap <= first.errorBound + second.errorBound) return second.errorBound < first.errorBound ? { ...second, kink, resolved } : { ...first, kink, resolved };
+  return { ...first, errorBound: Math.max(first.errorBound, second.errorBound) + gap, kink, resolved };
+}
+
+// Second differences above this many noise levels are signal, not noise.
+const signalOverNoise = 100;
+
+/**
+ * For smooth φ the gap |φ(h) + φ(−h) − 2φ(0)| / h ≈ h·|φ''| falls 8× over three
+ * halvings; a gap that falls less than 2× there, while above noise, means the
+ * steps do not resolve φ (a kink, or features finer than the steps).
+ */
+function isResolved(steps: number[], gaps: number[], noise: number): boolean {
+  const last = steps.length - 1;
+  if (last < 3) return last >= 1;
+  if (!(gaps[last] > signalOverNoise * noise)) return true;
+  return gaps[last] / steps[last] < 0.5 * (gaps[last - 3] / steps[last - 3]);
 }
 
 /**
@@ -112,9 +160,8 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
 function looksKinked(phi: (t: number) => number, phi0: number, steps: number[], gaps: number[], noise: number): boolean {
   const last = steps.length - 1;
   if (last < 3) return false;
-  const aboveNoise = (gap: number) => gap > 100 * noise;
+  const aboveNoise = (gap: number) => gap > signalOverNoise * noise;
   const slopeGap = (i: number) => gaps[i] / steps[i];
-  if (!aboveNoise(gaps[last]) || slopeGap(last) < 0.5 * slopeGap(last - 3)) return false;
   for (const shrink of [64, 512]) {
     const h = steps[last] / shrink;
     const plus = phi(h);

@@ -1,7 +1,6 @@
 // Coordinate-wise gradient check for small dimensions: every component against
 // its own central difference, with steps scaled to max(|x_i|, 1).
-import { differentiate } from './differences';
-import { initialRelativeStep, judge, type ProbeContext } from './probeContext';
+import { checkSlice, initialRelativeStep, type ProbeContext } from './probeContext';
 import type { ComponentCheck } from './types';
 import type { CallSite } from './userCalls';
 import { offsetComponent } from './vectors';
@@ -26,8 +25,7 @@ export function checkEveryComponent(context: ProbeContext): FullCheckResult {
   for (let i = 0; i < x.length; i++) {
     const phi = (t: number) => context.calls.objective(offsetComponent(x, i, t), site);
     const scale = Math.max(Math.abs(x[i]), 1);
-    const numerical = differentiate(phi, context.value, relativeStep * scale, { minLevels: 4, maxLevels: 12, noise: context.noise });
-    const verdict = judge(gradient[i], numerical, Math.abs(gradient[i]), context.gradientUnit);
+    const { numerical, verdict } = checkSlice(phi, context.value, relativeStep * scale, gradient[i], Math.abs(gradient[i]), context.gradientUnit, { minLevels: 4, maxLevels: 12, noise: context.noise });
     result.components.push({ index: i, analytic: gradient[i], numerical: numerical.value, errorBound: verdict.errorBound, relError: verdict.relError, mismatch: verdict.mismatch });
     result.steps.push(numerical.step);
     result.slopeScale = Math.max(result.slopeScale, numerical.slopeScale / scale);

@@ -30,6 +30,8 @@ export function noiseFromTable(values: ArrayLike<number>): NoiseTableResult {
   for (let k = 1; k < count; k++) {
     diffs = diffs.slice(1).map((value, i) => value - diffs[i]);
     if (k === 1 && diffs.filter((d) => d === 0).length > count / 2) return { verdict: 'step-too-small', noise: 0, levels };
+    // A level of exact zeros means f moves on a coarse lattice (e.g. float32 rounding): spacing too small.
+    if (diffs.every((d) => d === 0)) return { verdict: 'step-too-small', noise: 0, levels };
     gamma *= 0.5 * (k / (2 * k - 1));
     const meanSquare = diffs.reduce((sum, d) => sum + d * d, 0) / diffs.length;
     levels.push(Math.sqrt(gamma * meanSquare));
@@ -49,8 +51,9 @@ export function noiseFromTable(values: ArrayLike<number>): NoiseTableResult {
  * `phi` may return non-finite values; they count as "too large". Never below
  * half an ulp of f(x).
  */
-export function estimateNoise(phi: (t: number) => number, f0: number, spacing = 1e-6, attempts = 3, points = 9): number {
-  const floor = Math.abs(f0) * 2 ** -53;
+export function estimateNoise(phi: (t: number) => number, f0: number, spacing = 1e-6, attempts = 4, points = 9): number {
+  // Half an ulp of f(x): of float32 when f(x) looks computed in float32, else of float64.
+  const floor = Math.abs(f0) * (looksFloat32(f0) ? 2 ** -25 : 2 ** -53);
   let h = spacing;
   let fallback = Number.POSITIVE_INFINITY;
   let tooSmall = false;
@@ -63,16 +66,26 @@ export function estimateNoise(phi: (t: number) => number, f0: number, spacing = 
     }
     const result = noiseFromTable(values);
     if (result.verdict === 'found') return Math.max(result.noise, floor);
-    if (result.levels.length > 0) fallback = Math.min(fallback, Math.min(...result.levels));
+    const positive = result.levels.filter((level) => level > 0);
+    if (positive.length > 0) fallback = Math.min(fallback, Math.min(...positive));
+    // Up by 100, down by 10: the two never cycle back to a spacing already tried.
+    // Never below spacing/100: much finer, a rough objective looks smooth and its noise vanishes.
     if (result.verdict === 'step-too-small') {
       tooSmall = true;
       h *= 100;
+    } else if (h / 10 >= spacing / 100) {
+      h /= 10;
     } else {
-      h /= 100;
+      break;
     }
   }
   // Undetected: too-small tables mean f is flat at rounding level; otherwise the
   // smallest σ_k is an overestimate, which only makes the check more cautious.
   if (Number.isFinite(fallback)) return Math.max(fallback, floor);
   return tooSmall ? floor : Math.max(floor, Math.abs(f0) * 1e-8);
+}
+
+/** Exactly representable in float32 yet not a short binary fraction: almost surely a float32 result. */
+function looksFloat32(value: number): boolean {
+  return value !== 0 && Math.fround(value) === value && !Number.isInteger(value * 1024);
 }

@@ -22,6 +22,8 @@ export interface ProbeOutcome {
   undecided: boolean;
   /** f(x) differed between two calls at the same point. */
   unrepeatable: boolean;
+  /** f(x) of the second call. */
+  repeatedValue: number;
   findings: Finding[];
   full: FullCheckResult | null;
   directional: DirectionalResult | null;
@@ -70,6 +72,7 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
     kink: false,
     undecided: false,
     unrepeatable,
+    repeatedValue: repeated,
     findings: [],
     full: null,
     directional: null,

@@ -1,6 +1,6 @@
 // What every check at one probe needs: the point, f and ∇f there, the noise
 // level, and the rules that turn a numerical derivative into a verdict.
-import { defaultDifferenceSettings, differentiate, type DerivativeEstimate } from './differences';
+import { confirmDerivative, defaultDifferenceSettings, differentiate, type DerivativeEstimate, type DifferenceSettings } from './differences';
 import type { CallSite, UserCalls } from './userCalls';
 import { offset } from './vectors';
 
@@ -50,7 +50,7 @@ export function judge(analytic: number, numerical: DerivativeEstimate, roundoffS
   const size = Math.max(Math.abs(analytic), Math.abs(numerical.value));
   const relError = size > 0 ? difference / size : 0;
   const floor = roundoffUlps * unit * Math.max(roundoffScale, size);
-  const usable = Number.isFinite(numerical.value) && Number.isFinite(numerical.errorBound);
+  const usable = numerical.resolved && Number.isFinite(numerical.value) && Number.isFinite(numerical.errorBound);
   const mismatch = usable && !numerical.kink && difference > numerical.errorBound + floor;
   const decidable = mismatch || (usable && !numerical.kink && numerical.errorBound <= 0.1 * size);
   return { errorBound: numerical.errorBound, relError, mismatch, decidable };
@@ -62,9 +62,24 @@ export function initialRelativeStep(context: ProbeContext): number {
   return Math.min(0.05, Math.max(1e-3, 4 * Math.pow(relativeNoise, 0.2)));
 }
 
-/** φ'(0) for φ(t) = f(x + t·v). */
-export function directionalDerivative(context: ProbeContext, direction: Float64Array, step: number, minLevels = defaultDifferenceSettings.minLevels): DerivativeEstimate {
+/**
+ * φ'(0) for φ(t) = f(x + t·v), judged against `analytic`; a mismatch is only
+ * kept when an independent step sequence confirms it (`confirm`).
+ */
+export function checkDirection(context: ProbeContext, direction: Float64Array, step: number, analytic: number, roundoffScale: number, unit: number, options: { minLevels?: number; confirm?: boolean } = {}): { numerical: DerivativeEstimate; verdict: Judgement } {
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a finite-difference point' };
   const phi = (t: number) => context.calls.objective(offset(context.x, t, direction), site);
-  return differentiate(phi, context.value, step, { ...defaultDifferenceSettings, minLevels, noise: context.noise });
+  return checkSlice(phi, context.value, step, analytic, roundoffScale, unit, { ...defaultDifferenceSettings, minLevels: options.minLevels ?? defaultDifferenceSettings.minLevels, noise: context.noise }, options.confirm ?? true);
+}
+
+export function checkSlice(phi: (t: number) => number, phi0: number, step: number, analytic: number, roundoffScale: number, unit: number, settings: DifferenceSettings, confirm = true): { numerical: DerivativeEstimate; verdict: Judgement } {
+  // No retry at much smaller steps: below the scale where noise was measured, a
+  // rough objective (simulation noise) would show derivatives of its roughness.
+  let numerical = differentiate(phi, phi0, step, settings);
+  let verdict = judge(analytic, numerical, roundoffScale, unit);
+  if (verdict.mismatch && confirm) {
+    numerical = confirmDerivative(phi, phi0, numerical, step, settings);
+    verdict = judge(analytic, numerical, roundoffScale, unit);
+  }
+  return { numerical, verdict };
 }

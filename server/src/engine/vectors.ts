@@ -10,11 +10,6 @@ export function norm2(a: ArrayLike<number>): number {
   return Math.sqrt(dot(a, a));
 }
 
-export function normInf(a: ArrayLike<number>): number {
-  let max = 0;
-  for (let i = 0; i < a.length; i++) max = Math.max(max, Math.abs(a[i]));
-  return max;
-}
 
 /** x + t·v as a new vector. */
 export function offset(x: ArrayLike<number>, t: number, v: ArrayLike<number>): Float64Array {
@@ -30,20 +25,9 @@ export function offsetComponent(x: Float64Array, index: number, t: number): Floa
   return out;
 }
 
-export function scale(a: ArrayLike<number>, factor: number): Float64Array {
-  const out = new Float64Array(a.length);
-  for (let i = 0; i < a.length; i++) out[i] = a[i] * factor;
-  return out;
-}
 
 export function allFinite(a: ArrayLike<number>): boolean {
   for (let i = 0; i < a.length; i++) if (!Number.isFinite(a[i])) return false;
   return true;
 }
 
-/** Per-coordinate scale max(|x_i|, 1): steps and directions are relative to it. */
-export function coordinateScales(x: ArrayLike<number>): Float64Array {
-  const out = new Float64Array(x.length);
-  for (let i = 0; i < x.length; i++) out[i] = Math.max(Math.abs(x[i]), 1);
-  return out;
-}

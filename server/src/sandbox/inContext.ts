@@ -79,7 +79,7 @@ type Resolved = PairFunctions | { findings: Finding[] };
 
 function resolveFunctions(moduleExports: unknown, plan: CheckPlan): Resolved {
   const makeVector: PairFunctions['makeVector'] =
-    plan.argumentKind === 'float64array' ? (values) => new Float64Array(values) : (values) => Array.from(values);
+    plan.argumentKind === 'float64array' ? (values) => new Float64Array(values) : copyToArray;
   const objective = readFunction(moduleExports, plan.objective, 'objective');
   if (typeof objective !== 'function') return { findings: [objective] };
   if (plan.combined) {
@@ -153,4 +153,11 @@ function thrownFinding(thrown: unknown, subject: FindingSubject, context: string
     text = 'a value that cannot be described';
   }
   return { code: 'runtime-error', severity: 'error', subject, message: `${context}: ${text}`, ...(stack ? { stack } : {}) };
+}
+
+/** A plain array copy; a loop, because Array.from over a large typed array dominates a check's time. */
+function copyToArray(values: ArrayLike<number>): number[] {
+  const out = new Array<number>(values.length);
+  for (let i = 0; i < values.length; i++) out[i] = values[i];
+  return out;
 }
