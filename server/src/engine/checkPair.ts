@@ -1,4 +1,5 @@
 // Entry point of the numeric engine: the whole check plan for one pair.
+import { emptyReport } from './emptyReport';
 import { formatBound } from './format';
 import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
 import { createRandom } from './random';
@@ -28,18 +29,7 @@ const streams = { probes: 1, noise: 1000, directions: 2000, smoothness: 3000 };
  */
 export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan, clock: () => number = Date.now): PairReport {
   const started = readClock(clock);
-  const report: PairReport = {
-    status: 'pass',
-    dimension: null,
-    maxRelError: null,
-    diagnosis: null,
-    smoothness: null,
-    learningRate: null,
-    probes: [],
-    findings: [],
-    evaluations: { objective: 0, gradient: 0 },
-    elapsedMs: 0,
-  };
+  const report: PairReport = emptyReport('pass');
   let calls: UserCalls | null = null;
   try {
     const options: CheckOptions = { ...defaultCheckOptions, ...(plan && plan.options) };

@@ -1,21 +1,11 @@
 // Reports for checks that ended before the engine could produce one.
 // Pure: used by the host, the sandbox process and the in-context runner alike.
+import { emptyReport } from '../engine/emptyReport';
 import type { Finding, PairReport } from '../engine/types';
 
 /** A report with status 'error' carrying the given findings and nothing measured. */
 export function errorReport(findings: Finding[], elapsedMs = 0): PairReport {
-  return {
-    status: 'error',
-    dimension: null,
-    maxRelError: null,
-    diagnosis: null,
-    smoothness: null,
-    learningRate: null,
-    probes: [],
-    findings,
-    evaluations: { objective: 0, gradient: 0 },
-    elapsedMs,
-  };
+  return { ...emptyReport('error', findings), elapsedMs };
 }
 
 export function timeoutFinding(timeoutMs: number): Finding {

@@ -1,0 +1,17 @@
+// The report of a pair before (or without) any measurement.
+import type { Finding, PairReport, PairStatus } from './types';
+
+export function emptyReport(status: PairStatus, findings: Finding[] = [], dimension: number | null = null): PairReport {
+  return {
+    status,
+    dimension,
+    maxRelError: null,
+    diagnosis: null,
+    smoothness: null,
+    learningRate: null,
+    probes: [],
+    findings,
+    evaluations: { objective: 0, gradient: 0 },
+    elapsedMs: 0,
+  };
+}
