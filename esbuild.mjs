@@ -1,4 +1,4 @@
-// Builds the four programs of the product into dist/.
+// Builds the programs of the product into dist/.
 // The sandbox carries the engine as source text: it evaluates that text inside
 // each fresh `vm` context, so user code and engine share one bare realm and no
 // host object (with its route back to `process`) ever reaches user code.
@@ -48,6 +48,8 @@ const programs = [
   { entryPoints: ['server/src/lsp/main.ts'], outfile: 'dist/server.js' },
   { entryPoints: ['server/src/cli/main.ts'], outfile: 'dist/cli.js', banner: { js: '#!/usr/bin/env node' } },
   { entryPoints: ['server/src/sandbox/worker.ts'], outfile: 'dist/sandbox.js', plugins: [inContextRunnerPlugin] },
+  // The report webview's script runs in the editor's browser context.
+  { entryPoints: ['client/src/report/webview.ts'], outfile: 'dist/report.js', platform: 'browser', format: 'iife', target: 'es2022' },
 ];
 
 if (watch) {

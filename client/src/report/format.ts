@@ -1,0 +1,58 @@
+// Number and text formatting shared by the report's tables and plots.
+// Pure: the report's figures come through JSON, where NaN and ±Infinity arrive as null.
+
+/** A number from the report, or nothing when JSON turned a non-finite value into null. */
+export type Figure = number | null | undefined;
+
+export function isFiniteNumber(x: unknown): x is number {
+  return typeof x === 'number' && Number.isFinite(x);
+}
+
+/** A value to compare: up to 6 significant digits, exponent notation when very large or small. */
+export function formatFigure(x: Figure): string {
+  if (x === null || x === undefined) return '—';
+  if (Number.isNaN(x)) return 'NaN';
+  if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
+  if (x === 0) return '0';
+  const magnitude = Math.abs(x);
+  const text = magnitude >= 1e6 || magnitude < 1e-4 ? shortExponent(x.toExponential(5)) : String(Number(x.toPrecision(6)));
+  return text.replace(/^-/, '−');
+}
+
+/** An error bound or a relative error: two significant digits are enough. */
+export function formatBound(x: Figure): string {
+  if (!isFiniteNumber(x)) return formatFigure(x);
+  if (x === 0) return '0';
+  return shortExponent(x.toExponential(1)).replace(/^-/, '−');
+}
+
+/** An axis tick: short, and exact for powers of ten. */
+export function formatTick(x: number): string {
+  if (x === 0) return '0';
+  const magnitude = Math.abs(x);
+  if (magnitude >= 1e4 || magnitude < 1e-3) return shortExponent(x.toExponential(2)).replace(/^-/, '−');
+  return String(Number(x.toPrecision(4))).replace(/^-/, '−');
+}
+
+/** 10^k as a label: "1e-8", "1", "10". */
+export function formatPowerOfTen(exponent: number): string {
+  if (exponent >= 0 && exponent <= 3) return String(10 ** exponent);
+  return `1e${exponent}`.replace('-', '−');
+}
+
+export function formatDuration(ms: Figure): string {
+  if (!isFiniteNumber(ms)) return '—';
+  return ms < 1000 ? `${Math.round(ms)} ms` : `${(ms / 1000).toFixed(2)} s`;
+}
+
+/** Escapes text for HTML and XML content and attribute values. */
+export function escapeMarkup(text: string): string {
+  return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+}
+
+/** "1.50000e-7" → "1.5e-7". */
+function shortExponent(text: string): string {
+  const [mantissa, exponent] = text.split('e');
+  const trimmed = mantissa.includes('.') ? mantissa.replace(/0+$/, '').replace(/\.$/, '') : mantissa;
+  return `${trimmed}e${exponent.replace('+', '')}`;
+}

@@ -1,0 +1,129 @@
+// The report's content as an HTML string: the verdict, the caution, the figures,
+// the four plots and the per-component table. Pure, so it is tested under node;
+// the webview script only inserts it. Every text from the user's code is escaped.
+import type { Diagnosis, PairReport, PairStatus, ProbeReport } from '../../../server/src/engine/types';
+import type { PairReportResult } from '../../../server/src/shared/protocol';
+import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from './format';
+import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
+
+const verdicts: Record<PairStatus, string> = {
+  pass: 'gradient matches',
+  fail: 'gradient is wrong',
+  inconclusive: 'undecided',
+  error: 'not checked',
+};
+
+export const localEstimateCaution =
+  'Every smoothness figure (L̂, μ̂, κ̂, 1/L̂, 2/L̂) is a local estimate measured near the probe points, not a bound over the whole domain: far from the probes the objective may be much steeper.';
+
+export function renderReport(result: PairReportResult): string {
+  const { report } = result;
+  const worst = worstProbeIndex(report.probes);
+  const studied = report.probes.find((p) => p.stepStudy);
+  const withDescent = report.probes[worst]?.descent.length ? report.probes[worst] : report.probes.find((p) => p.descent.length > 0);
+  const pairName = result.gradient ? `${result.objective} / ${result.gradient}` : result.objective;
+  return [
+    `<header class="report-header"><h1>${esc(pairName)}</h1>`,
+    `<span class="verdict verdict-${report.status}" data-status="${report.status}">${verdicts[report.status]}</span>`,
+    '<div class="actions"><button type="button" data-action="check-again">Check again</button>',
+    '<button type="button" data-action="copy-json">Copy as JSON</button></div></header>',
+    `<p class="caution" role="note">${esc(localEstimateCaution)}</p>`,
+    findingsList(report),
+    `<section class="figures"><h2>Figures</h2>${figuresTable(report)}</section>`,
+    '<section class="plots"><h2>Plots</h2>',
+    plotFigure(gradientPlot(report.probes[worst], Math.max(worst, 0)), worst >= 0 ? `At probe ${worst + 1}, the one with the largest relative error.` : ''),
+    plotFigure(stepErrorPlot(studied?.stepStudy), 'The chosen step balances truncation error (large h) against rounding error (small h).'),
+    plotFigure(eigenvaluePlot(report.probes, report.smoothness), 'Ritz values of the Lanczos iteration on Hessian-vector products.'),
+    plotFigure(descentPlot(withDescent?.descent), 'Gradient steps w ← w − α∇f(w) from a probe.'),
+    '</section>',
+    worst >= 0 ? `<section class="components"><h2>Derivatives at probe ${worst + 1}</h2>${componentTable(report.probes[worst])}</section>` : '',
+    consoleSection(result.console),
+    `<footer class="settings">Checked with seed ${result.settings.seed}, ${result.settings.probeCount} random probes when none is given, time limit ${formatDuration(result.settings.timeoutMs)}.</footer>`,
+  ].join('');
+}
+
+export function renderLoading(objective: string): string {
+  return `<p class="loading">Checking ${esc(objective)}…</p>`;
+}
+
+export function renderFailure(objective: string, message: string): string {
+  return `<p class="failure">No report for ${esc(objective)}: ${esc(message)}</p>`;
+}
+
+function plotFigure(svg: string, caption: string): string {
+  return `<figure class="plot-figure">${svg}${caption ? `<figcaption>${esc(caption)}</figcaption>` : ''}</figure>`;
+}
+
+function findingsList(report: PairReport): string {
+  if (report.findings.length === 0) return '';
+  const items = report.findings
+    .map((f) => `<li class="finding severity-${f.severity}" data-code="${esc(f.code)}"><code>${esc(f.code)}</code> ${esc(f.message)}</li>`)
+    .join('');
+  return `<section class="findings"><h2>Findings</h2><ul>${items}</ul></section>`;
+}
+
+function figuresTable(report: PairReport): string {
+  const s = report.smoothness;
+  const rate = report.learningRate;
+  const rows: Array<[string, string]> = [
+    ['Verdict', verdicts[report.status]],
+    ['Max relative error', formatBound(report.maxRelError)],
+    ['Shape of the error', report.diagnosis ? describeDiagnosis(report.diagnosis) : '—'],
+    ['L̂ (local Lipschitz estimate)', formatFigure(s?.lipschitz)],
+    ['Safe step 1/L̂', formatFigure(s?.safeStep)],
+    ['Divergence step 2/L̂', formatFigure(s?.divergenceStep)],
+    ['μ̂ (smallest curvature)', formatFigure(s?.mu)],
+    ['κ̂ = L̂/μ̂', formatFigure(s?.kappa)],
+    ['Learning rate', rate ? `${rate.name} = ${formatFigure(rate.value)}: ${rate.status}` : 'none declared'],
+    ['Dimension', formatFigure(report.dimension)],
+    ['Probes', String(report.probes.length)],
+    ['Evaluations', `f ${report.evaluations.objective}, ∇f ${report.evaluations.gradient}`],
+    ['Time', formatDuration(report.elapsedMs)],
+  ];
+  const body = rows.map(([name, value]) => `<tr><th scope="row">${esc(name)}</th><td>${esc(value)}</td></tr>`).join('');
+  return `<table class="figures-table" id="figures-table"><tbody>${body}</tbody></table>`;
+}
+
+function componentTable(probe: ProbeReport): string {
+  const head = (first: string) =>
+    `<thead><tr><th scope="col">${first}</th><th scope="col">analytic</th><th scope="col">numerical</th><th scope="col">error bound</th><th scope="col">relative error</th><th scope="col"></th></tr></thead>`;
+  const mark = (mismatch: boolean) => (mismatch ? '<td class="mismatch-cell">✗ mismatch</td>' : '<td></td>');
+  if (probe.components.length > 0) {
+    const rows = probe.components
+      .map(
+        (c) =>
+          `<tr class="${c.mismatch ? 'mismatch' : ''}" data-index="${c.index}"><td>${c.index}</td><td>${formatFigure(c.analytic)}</td>` +
+          `<td>${formatFigure(c.numerical)}</td><td>${formatBound(c.errorBound)}</td><td>${formatBound(c.relError)}</td>${mark(c.mismatch)}</tr>`,
+      )
+      .join('');
+    return `<table class="component-table">${head('component')}<tbody>${rows}</tbody></table>`;
+  }
+  const rows = probe.directions
+    .map(
+      (d, i) =>
+        `<tr class="${d.mismatch ? 'mismatch' : ''}" data-index="${i}"><td>${i + 1}</td><td>${formatFigure(d.analytic)}</td>` +
+        `<td>${formatFigure(d.numerical)}</td><td>${formatBound(d.errorBound)}</td><td></td>${mark(d.mismatch)}</tr>`,
+    )
+    .join('');
+  return `<table class="component-table">${head('direction')}<tbody>${rows}</tbody></table>`;
+}
+
+function describeDiagnosis(d: Diagnosis): string {
+  switch (d.kind) {
+    case 'sign':
+      return 'sign flipped';
+    case 'factor':
+      return `off by a factor of ${formatFigure(d.factor)}`;
+    case 'permutation':
+      return `components swapped: ${d.pairs.map(([a, b]) => `${a}↔${b}`).join(', ')}`;
+    case 'subset':
+      return `wrong components: ${d.components.join(', ')}`;
+    case 'unknown':
+      return 'no simple pattern';
+  }
+}
+
+function consoleSection(lines: string[]): string {
+  if (!lines.length) return '';
+  return `<section class="console"><h2>Console output during the check</h2><pre>${esc(lines.join('\n'))}</pre></section>`;
+}
