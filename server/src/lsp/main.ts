@@ -1,13 +1,6 @@
-// Language server entry (dist/server.js). Editor features arrive in the next
-// milestone; for now it answers initialize so clients can connect.
-import { createConnection, ProposedFeatures, TextDocumentSyncKind } from 'vscode-languageserver/node';
-import { productVersion } from '../shared/productInfo';
+// Language server entry (dist/server.js). The transport comes from argv:
+// --node-ipc for the VS Code client, --stdio for other editors.
+import { createConnection, ProposedFeatures } from 'vscode-languageserver/node';
+import { startServer } from './server';
 
-const connection = createConnection(ProposedFeatures.all);
-
-connection.onInitialize(() => ({
-  capabilities: { textDocumentSync: TextDocumentSyncKind.Incremental },
-  serverInfo: { name: 'slopecheck', version: productVersion },
-}));
-
-connection.listen();
+startServer(createConnection(ProposedFeatures.all));

@@ -57,3 +57,6 @@ export interface PairReportResult {
 }
 
 export type DocumentSummaryParams = DocumentCheckSummary & { uri: string };
+
+/** Result of `checkAgain`: the document's summary once the check has finished; null for a document the server does not have open. */
+export type CheckAgainResult = DocumentSummaryParams | null;

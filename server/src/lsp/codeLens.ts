@@ -1,0 +1,38 @@
+// The one-line summary shown above each pair, and its commands.
+import type { CodeLens } from 'vscode-languageserver';
+import type { PairOutcome } from '../check/checkDocument';
+import type { DiscoveredPair } from '../discovery/types';
+import { toRange } from './diagnostics';
+import { describeDiagnosis, floorToSignificant, statusWords } from './wording';
+
+export const commands = {
+  openReport: 'slopecheck.openReport',
+  checkAgain: 'slopecheck.checkAgain',
+} as const;
+
+/** E.g. "gradient ok · step ≤ 2.6e-2 (local estimate)" or "gradient wrong: sign flipped". */
+export function lensTitle(outcome: PairOutcome | null, checking: boolean): string {
+  if (!outcome) return checking ? 'checking…' : 'not checked yet';
+  const { report } = outcome;
+  switch (report.status) {
+    case 'pass': {
+      const step = report.smoothness ? floorToSignificant(report.smoothness.safeStep, 2) : null;
+      return step === null ? statusWords.pass : `${statusWords.pass} · step ≤ ${step.toExponential(1).replace('e+', 'e')} (local estimate)`;
+    }
+    case 'fail':
+      return `${statusWords.fail}: ${describeDiagnosis(report.diagnosis)}`;
+    default: {
+      const reason = report.findings.find((f) => f.severity !== 'info') ?? report.findings[0];
+      return reason ? `${statusWords[report.status]}: ${reason.code}` : statusWords[report.status];
+    }
+  }
+}
+
+export function pairLenses(uri: string, pair: DiscoveredPair, outcome: PairOutcome | null, checking: boolean): CodeLens[] {
+  const range = toRange(pair.objective.nameSpan);
+  const title = pair.skipped ? 'not checked (slopecheck-skip)' : lensTitle(outcome, checking);
+  return [
+    { range, command: { title, command: commands.openReport, arguments: [uri, pair.objective.name] } },
+    { range, command: { title: 'check again', command: commands.checkAgain, arguments: [uri] } },
+  ];
+}

@@ -1,0 +1,141 @@
+// Turns a document's check into LSP diagnostics: one per pair and finding code,
+// with per-probe repeats merged into one message that says how often they were seen.
+import { DiagnosticSeverity, type Diagnostic, type DiagnosticRelatedInformation, type Range } from 'vscode-languageserver';
+import { findingSpan, sameFile, type DocumentCheck, type PairOutcome } from '../check/checkDocument';
+import { findingHelpUrl } from '../check/codes';
+import type { SourceSpan } from '../discovery/types';
+import { formatBound, formatValue } from '../engine/format';
+import type { Finding, Severity } from '../engine/types';
+import { describeDiagnosis } from './wording';
+
+export const diagnosticSource = 'slopecheck';
+
+/** What code actions need to find the pair a diagnostic belongs to. */
+export interface DiagnosticData {
+  objective: string;
+}
+
+export interface DiagnosticContext {
+  uri: string;
+  /** The text the check ran on: for placing runtime errors on their line. */
+  text: string;
+  /** The client shows related information (publishDiagnostics.relatedInformation). */
+  relatedInformation: boolean;
+}
+
+const severities: Record<Severity, DiagnosticSeverity> = {
+  error: DiagnosticSeverity.Error,
+  warning: DiagnosticSeverity.Warning,
+  info: DiagnosticSeverity.Information,
+};
+
+/** Most component values shown in one message. */
+const shownComponents = 4;
+
+export function toDiagnostics(check: DocumentCheck, context: DiagnosticContext): Diagnostic[] {
+  const diagnostics = check.fileFindings.map((finding) => diagnostic(finding, finding.message, toRange(finding.span)));
+  for (const outcome of check.pairs) diagnostics.push(...pairDiagnostics(check.fileName, outcome, context));
+  return diagnostics;
+}
+
+function pairDiagnostics(fileName: string, outcome: PairOutcome, context: DiagnosticContext): Diagnostic[] {
+  const groups = new Map<string, { range: Range; findings: Finding[] }>();
+  for (const finding of outcome.report.findings) {
+    const range = findingRange(fileName, outcome, finding, context.text);
+    const key = `${finding.code}@${range.start.line}:${range.start.character}`;
+    const group = groups.get(key) ?? groups.set(key, { range, findings: [] }).get(key)!;
+    group.findings.push(finding);
+  }
+  return [...groups.values()].map(({ range, findings }) => {
+    const lead = worstFinding(outcome, findings);
+    const message = lead.code === 'gradient-mismatch' ? mismatchMessage(outcome, lead, findings) : withRepeats(lead.message, findings, outcome);
+    const result = diagnostic(lead, message, range);
+    result.data = { objective: outcome.pair.objective.name } satisfies DiagnosticData;
+    if (context.relatedInformation) {
+      const related = relatedInformation(outcome, lead, context.uri);
+      if (related.length > 0) result.relatedInformation = related;
+    }
+    return result;
+  });
+}
+
+function diagnostic(finding: Finding, message: string, range: Range): Diagnostic {
+  return {
+    range,
+    severity: severities[finding.severity],
+    source: diagnosticSource,
+    code: finding.code,
+    codeDescription: { href: findingHelpUrl(finding.code) },
+    message,
+  };
+}
+
+/** The user's throwing line (without its indentation) when it is in this document, else the finding's name. */
+function findingRange(fileName: string, outcome: PairOutcome, finding: Finding, text: string): Range {
+  const location = finding.location;
+  if (location && sameFile(location.file, fileName)) {
+    const lines = text.split('\n');
+    const line = Math.min(Math.max(location.line - 1, 0), lines.length - 1);
+    const content = lines[line].replace(/\r$/, '');
+    const indent = content.length - content.trimStart().length;
+    return { start: { line, character: indent }, end: { line, character: content.trimEnd().length } };
+  }
+  return toRange(findingSpan(outcome.pair, finding));
+}
+
+export function toRange(span: SourceSpan): Range {
+  return { start: { line: span.startLine, character: span.startCharacter }, end: { line: span.endLine, character: span.endCharacter } };
+}
+
+/** The finding seen at the probe with the largest relative error (the first when none is larger). */
+function worstFinding(outcome: PairOutcome, findings: Finding[]): Finding {
+  const errorAt = (finding: Finding) => (finding.probeIndex === undefined ? 0 : (outcome.report.probes[finding.probeIndex]?.maxRelError ?? 0));
+  return findings.reduce((a, b) => (errorAt(b) > errorAt(a) ? b : a));
+}
+
+/** The worst probe's details, the diagnosed shape, and how many probes saw it. */
+function mismatchMessage(outcome: PairOutcome, worst: Finding, findings: Finding[]): string {
+  const { pair, report } = outcome;
+  const probe = worst.probeIndex === undefined ? undefined : report.probes[worst.probeIndex];
+  const gradient = pair.gradient?.name ?? `the gradient of ${pair.objective.name}`;
+  const head = `${gradient} disagrees with central differences of ${pair.objective.name}: ${describeDiagnosis(report.diagnosis)}.`;
+  const wrong = probe?.components.filter((c) => c.mismatch) ?? [];
+  const details =
+    probe && wrong.length > 0
+      ? `At probe ${worst.probeIndex}, ` +
+        wrong
+          .slice(0, shownComponents)
+          .map((c) => `component ${c.index}: analytic ${formatValue(c.analytic)}, numerical ${formatValue(c.numerical)} ± ${formatBound(c.errorBound)}`)
+          .join('; ') +
+        (wrong.length > shownComponents ? `; and ${wrong.length - shownComponents} more` : '') +
+        '.'
+      : worst.message;
+  return `${head} ${details}${seenAt(findings, outcome)}`;
+}
+
+function withRepeats(message: string, findings: Finding[], outcome: PairOutcome): string {
+  return findings.length > 1 ? `${message}${seenAt(findings, outcome)}` : message;
+}
+
+function seenAt(findings: Finding[], outcome: PairOutcome): string {
+  const probes = new Set(findings.flatMap((f) => (f.probeIndex === undefined ? [] : [f.probeIndex])));
+  const total = outcome.report.probes.length;
+  if (probes.size === 0 || total === 0) return '';
+  return ` Seen at ${probes.size} of ${total} ${total === 1 ? 'probe' : 'probes'}.`;
+}
+
+/** The other half of the pair, and the probe tag the finding was seen at. */
+function relatedInformation(outcome: PairOutcome, finding: Finding, uri: string): DiagnosticRelatedInformation[] {
+  const { pair } = outcome;
+  const related: DiagnosticRelatedInformation[] = [];
+  const at = (span: SourceSpan, message: string) => related.push({ location: { uri, range: toRange(span) }, message });
+  if (finding.subject === 'gradient' || finding.subject === 'learningRate') at(pair.objective.nameSpan, `objective ${pair.objective.name}`);
+  if (finding.subject !== 'gradient' && pair.gradient) at(pair.gradient.nameSpan, `gradient ${pair.gradient.name}`);
+  const tags = pair.objective.probeTags;
+  if (finding.probeIndex !== undefined && tags.length > 0) {
+    // Tags and probes line up one to one only when every probe came from its own tag.
+    const tag = tags.length === outcome.report.probes.length ? tags[finding.probeIndex] : tags[0];
+    if (tag) at(tag, `probe ${finding.probeIndex}`);
+  }
+  return related;
+}

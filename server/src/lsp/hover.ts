@@ -1,0 +1,67 @@
+// The hover card of a pair: verdict, error, local smoothness and steps, probes and cost.
+// Pure functions of the report, so they are tested without an editor.
+import type { PairOutcome } from '../check/checkDocument';
+import type { DiscoveredPair, SourceSpan } from '../discovery/types';
+import type { RateStatus } from '../engine/types';
+import { describeDiagnosis, shortNumber, statusWords } from './wording';
+
+export type NameRole = 'objective' | 'gradient' | 'learningRate';
+
+/** The pair whose objective, gradient or learning-rate name covers `offset`. */
+export function nameAt(pairs: DiscoveredPair[], offset: number): { pair: DiscoveredPair; role: NameRole } | null {
+  const covers = (span: SourceSpan | undefined) => span !== undefined && span.start <= offset && offset <= span.end;
+  for (const pair of pairs) {
+    if (covers(pair.objective.nameSpan)) return { pair, role: 'objective' };
+    if (covers(pair.gradient?.nameSpan)) return { pair, role: 'gradient' };
+    if (covers(pair.learningRate?.nameSpan)) return { pair, role: 'learningRate' };
+  }
+  return null;
+}
+
+const rateWords: Record<RateStatus, string> = {
+  safe: 'safe (at or below 1/L̂)',
+  aggressive: 'aggressive (between 1/L̂ and 2/L̂: may oscillate)',
+  divergent: 'divergent (at or above 2/L̂)',
+};
+
+const shownProbes = 2;
+const shownCoordinates = 3;
+
+/** Markdown card for a pair; `outcome` is null while no check has finished. */
+export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null, checking: boolean): string {
+  const title = pair.gradient ? `\`${pair.objective.name}\` → \`${pair.gradient.name}\`` : `\`${pair.objective.name}\` (value and gradient)`;
+  if (pair.skipped) return `**${title}** · not checked: \`// slopecheck-skip\` is above it`;
+  if (!outcome) return `**${title}** · ${checking ? 'checking…' : 'not checked yet'}`;
+  const { report } = outcome;
+  const verdict = report.status === 'fail' ? `${statusWords.fail}: ${describeDiagnosis(report.diagnosis)}` : statusWords[report.status];
+  const s = report.smoothness;
+  const rows: Array<[string, string]> = [];
+  if (report.maxRelError !== null) rows.push(['max relative error', shortNumber(report.maxRelError)]);
+  if (s) {
+    rows.push(['L̂ (curvature bound near the probes)', shortNumber(s.lipschitz)]);
+    rows.push(['safe step 1/L̂', shortNumber(s.safeStep)]);
+    rows.push(['divergence at 2/L̂', shortNumber(s.divergenceStep)]);
+    rows.push(['μ̂ (smallest curvature)', `${shortNumber(s.mu)}${s.mu < 0 ? ' (not convex here)' : ''}`]);
+    rows.push(['κ̂ = L̂/μ̂', s.kappa === null ? '— (μ̂ ≤ 0)' : shortNumber(s.kappa)]);
+  }
+  const rate = report.learningRate;
+  if (rate) rows.push([`learning rate \`${rate.name}\` = ${rate.value}`, rateWords[rate.status]]);
+  if (report.probes.length > 0) rows.push(['probes', describeProbes(report.probes.map((p) => p.point), report.dimension)]);
+  rows.push(['work', `${report.evaluations.objective} objective and ${report.evaluations.gradient} gradient evaluations in ${Math.round(report.elapsedMs)} ms`]);
+
+  const lines = [`**${title}** · ${verdict}`, '', '| | |', '|:--|:--|', ...rows.map(([k, v]) => `| ${k} | ${v} |`)];
+  const notes = report.findings.filter((f) => f.severity !== 'info' || report.status !== 'pass').map((f) => `\`${f.code}\``);
+  if (notes.length > 0) lines.push('', `Findings: ${[...new Set(notes)].join(', ')}`);
+  if (s || report.maxRelError !== null) lines.push('', '_L̂, μ̂, κ̂ and the steps are local estimates near the probes, not bounds for the whole domain._');
+  return lines.join('\n');
+}
+
+function describeProbes(points: number[][], dimension: number | null): string {
+  const n = dimension ?? points[0]?.length ?? 0;
+  const shown = points.slice(0, shownProbes).map((point) => {
+    const head = point.slice(0, shownCoordinates).map((v) => shortNumber(v)).join(', ');
+    return `[${head}${n > shownCoordinates ? ', …' : ''}]`;
+  });
+  const more = points.length > shownProbes ? `, and ${points.length - shownProbes} more` : '';
+  return `${points.length} in dimension ${n}: ${shown.join(', ')}${more}`;
+}

@@ -1,0 +1,208 @@
+// Wires the LSP connection to the document checks and the editor features.
+import * as path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import {
+  CodeActionKind, CodeLensRefreshRequest, DidChangeConfigurationNotification, TextDocumentSyncKind, TextDocuments, type Connection, type InitializeParams,
+} from 'vscode-languageserver';
+import { TextDocument } from 'vscode-languageserver-textdocument';
+import { CachedRunner } from '../check/runCache';
+import { discoverPairs } from '../discovery/discover';
+import type { DiscoveredPair } from '../discovery/types';
+import { SandboxPool } from '../sandbox/pool';
+import { productVersion, sandboxScriptPath } from '../shared/productInfo';
+import {
+  methods, type CheckAgainResult, type DocumentParams, type InitializationOptions, type PairListing, type PairReportParams, type PairReportResult, type SetTrustParams,
+} from '../shared/protocol';
+import type { SlopecheckSettings } from '../shared/settings';
+import { codeActions } from './codeActions';
+import { pairLenses } from './codeLens';
+import { toDiagnostics, toRange } from './diagnostics';
+import { checkOptions, DocumentChecks } from './documentChecks';
+import { hoverMarkdown, nameAt } from './hover';
+import { PatchVerifier } from './patchVerifier';
+import { SettingsSource } from './settingsSource';
+
+export function startServer(connection: Connection): void {
+  const documents = new TextDocuments(TextDocument);
+  let trusted = true;
+  let relatedInformation = false;
+  let codeLensRefresh = false;
+  let dynamicConfiguration = false;
+  let settings!: SettingsSource;
+  let pool: SandboxPool | null = null;
+  let ready!: Promise<void>;
+  const runner = new CachedRunner(() => pool ?? (pool = createPool(settings.current)));
+  const verifier = new PatchVerifier(() => runner);
+  let checks!: DocumentChecks;
+
+  connection.onInitialize((params: InitializeParams) => {
+    const options = (params.initializationOptions ?? {}) as InitializationOptions;
+    trusted = options.trusted !== false;
+    const capabilities = params.capabilities;
+    relatedInformation = capabilities.textDocument?.publishDiagnostics?.relatedInformation === true;
+    codeLensRefresh = capabilities.workspace?.codeLens?.refreshSupport === true;
+    dynamicConfiguration = capabilities.workspace?.didChangeConfiguration?.dynamicRegistration === true;
+    settings = new SettingsSource(connection, capabilities.workspace?.configuration === true);
+    checks = new DocumentChecks({
+      runner,
+      settings: () => settings.current,
+      trusted: () => trusted,
+      publish: (uri, result) => {
+        const diagnostics = result ? toDiagnostics(result.check, { uri, text: result.text, relatedInformation }) : [];
+        void connection.sendDiagnostics({ uri, version: result?.version, diagnostics });
+        if (codeLensRefresh) void connection.sendRequest(CodeLensRefreshRequest.type).catch(() => undefined);
+      },
+      summary: (summary) => void connection.sendNotification(methods.documentSummary, summary),
+      progress: capabilities.window?.workDoneProgress ? () => connection.window.createWorkDoneProgress() : null,
+      log: (message) => connection.console.error(message),
+    });
+    return {
+      capabilities: {
+        textDocumentSync: { openClose: true, change: TextDocumentSyncKind.Incremental, save: { includeText: false } },
+        hoverProvider: true,
+        codeLensProvider: { resolveProvider: false },
+        codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix] },
+      },
+      serverInfo: { name: 'slopecheck', version: productVersion },
+    };
+  });
+
+  connection.onInitialized(() => {
+    if (dynamicConfiguration) void connection.client.register(DidChangeConfigurationNotification.type, { section: 'slopecheck' });
+    ready = settings.pull().then((current) => {
+      connection.console.info(`Slopecheck ${productVersion} language server; workspace ${trusted ? 'trusted' : 'not trusted'}; settings ${JSON.stringify(current)}`);
+    });
+  });
+
+  connection.onDidChangeConfiguration(async (change) => {
+    const before = settings.current;
+    const after = await settings.changed(change.settings);
+    connection.console.info(`settings changed: ${JSON.stringify(after)}`);
+    if (pool && (before.timeoutMs !== after.timeoutMs || before.memoryMb !== after.memoryMb)) {
+      pool.dispose();
+      pool = null;
+    }
+    checks.checkAll();
+  });
+
+  connection.onNotification(methods.setTrust, (params: SetTrustParams) => {
+    trusted = params.trusted !== false;
+    connection.console.info(`workspace ${trusted ? 'trusted: checking open documents' : 'not trusted: nothing is run'}`);
+    if (trusted) checks.checkAll();
+    else checks.withdrawAll();
+  });
+
+  // Checks wait for the first settings, so a typing-mode client is never checked with defaults first.
+  const afterReady = (action: () => void) => void (ready ?? Promise.resolve()).then(action);
+  documents.onDidOpen(({ document }) =>
+    afterReady(() => {
+      const current = documents.get(document.uri);
+      if (current) checks.opened(current.uri, fileNameOf(current.uri), current.getText(), current.version);
+    }),
+  );
+  documents.onDidChangeContent(({ document }) => checks.changed(document.uri, document.getText(), document.version));
+  documents.onDidSave(({ document }) => afterReady(() => checks.saved(document.uri)));
+  documents.onDidClose(({ document }) => checks.closed(document.uri));
+
+  // Features read the current text, so names and edits line up with what the user sees.
+  const discovered = discoveryCache();
+  const pairsOf = (document: TextDocument) => discovered(document.uri, document.version, () => discoverPairs(document.getText(), fileNameOf(document.uri)).pairs);
+
+  connection.onHover(({ textDocument, position }) => {
+    const document = documents.get(textDocument.uri);
+    if (!document) return null;
+    const hit = nameAt(pairsOf(document), document.offsetAt(position));
+    if (!hit) return null;
+    const outcome = checks.outcome(document.uri, hit.pair.objective.name);
+    const span = hit.role === 'objective' ? hit.pair.objective.nameSpan : hit.role === 'gradient' ? hit.pair.gradient!.nameSpan : hit.pair.learningRate!.nameSpan;
+    return { contents: { kind: 'markdown', value: hoverMarkdown(hit.pair, outcome, checks.isChecking(document.uri)) }, range: toRange(span) };
+  });
+
+  connection.onCodeLens(({ textDocument }) => {
+    const document = documents.get(textDocument.uri);
+    if (!document) return [];
+    const checking = checks.isChecking(document.uri);
+    return pairsOf(document).flatMap((pair) => pairLenses(document.uri, pair, checks.outcome(document.uri, pair.objective.name), checking));
+  });
+
+  connection.onCodeAction(async ({ textDocument, context }, token) => {
+    const document = documents.get(textDocument.uri);
+    if (!document || !trusted) return [];
+    const abort = new AbortController();
+    token.onCancellationRequested(() => abort.abort());
+    const fileName = fileNameOf(document.uri);
+    return codeActions({
+      uri: document.uri,
+      fileName,
+      text: document.getText(),
+      pairs: pairsOf(document),
+      positionAt: (offset) => document.positionAt(offset),
+      diagnostics: context.diagnostics,
+      outcome: (objective) => checks.outcome(document.uri, objective),
+      verify: (patched, objective) => verifier.passes(patched, fileName, objective, checkOptions(settings.current), abort.signal),
+    });
+  });
+
+  connection.onRequest(methods.listPairs, ({ uri }: DocumentParams): PairListing[] => {
+    const document = documents.get(uri);
+    if (!document) return [];
+    return pairsOf(document).map((pair) => ({
+      objective: pair.objective.name,
+      gradient: pair.gradient?.name ?? null,
+      line: pair.objective.nameSpan.startLine,
+      status: checks.outcome(uri, pair.objective.name)?.report.status ?? 'pending',
+    }));
+  });
+
+  connection.onRequest(methods.pairReport, ({ uri, objective }: PairReportParams): PairReportResult | null => {
+    const outcome = checks.outcome(uri, objective);
+    if (!outcome) return null;
+    const current = settings.current;
+    return {
+      uri,
+      objective,
+      gradient: outcome.pair.gradient?.name ?? null,
+      line: outcome.pair.objective.nameSpan.startLine,
+      report: outcome.report,
+      console: outcome.console,
+      settings: { seed: current.seed, timeoutMs: current.timeoutMs, probeCount: current.probeCount },
+    };
+  });
+
+  connection.onRequest(methods.checkAgain, async ({ uri }: DocumentParams): Promise<CheckAgainResult> => {
+    await ready;
+    return checks.checkAgain(uri);
+  });
+
+  connection.onShutdown(() => {
+    checks?.dispose();
+    pool?.dispose();
+    pool = null;
+  });
+
+  documents.listen(connection);
+  connection.listen();
+}
+
+function createPool(settings: SlopecheckSettings): SandboxPool {
+  return new SandboxPool({ sandboxScript: sandboxScriptPath(), timeoutMs: settings.timeoutMs, memoryMb: settings.memoryMb, size: 1 });
+}
+
+/** A file path for the bundler: the real one for file URIs, a made-up one in the working folder otherwise. */
+export function fileNameOf(uri: string): string {
+  if (uri.startsWith('file:')) return fileURLToPath(uri);
+  const name = uri.replace(/^[a-z]+:/i, '').replace(/[^\w.-]+/g, '_') || 'untitled';
+  return path.join(process.cwd(), /\.[cm]?[jt]sx?$/.test(name) ? name : `${name}.ts`);
+}
+
+/** Discovery of the latest version of each document, recomputed only when the text changes. */
+function discoveryCache(): (uri: string, version: number, discover: () => DiscoveredPair[]) => DiscoveredPair[] {
+  const entries = new Map<string, { version: number; pairs: DiscoveredPair[] }>();
+  return (uri, version, discover) => {
+    const hit = entries.get(uri);
+    if (hit && hit.version === version) return hit.pairs;
+    const pairs = discover();
+    entries.set(uri, { version, pairs });
+    return pairs;
+  };
+}

@@ -1,0 +1,50 @@
+// Shared wording of verdicts and numbers for diagnostics, hovers and code lenses.
+import type { Diagnosis, PairStatus } from '../engine/types';
+
+/** Rounds a positive x down to `digits` significant figures: a step taken from it stays at or below x. */
+export function floorToSignificant(x: number, digits = 2): number {
+  if (!(x > 0) || !Number.isFinite(x)) return x;
+  const scale = 10 ** (Math.floor(Math.log10(x)) - digits + 1);
+  // The tiny nudge keeps 0.026 / 1e-3 = 25.999… from flooring to 25.
+  const units = Math.floor(x / scale + 1e-9);
+  return Number((units * scale).toPrecision(digits));
+}
+
+/** A figure for a card or a lens: three significant digits, exponent form when very large or small. */
+export function shortNumber(x: number | null | undefined, digits = 3): string {
+  if (x === null || x === undefined) return '—';
+  if (!Number.isFinite(x)) return String(x);
+  if (x === 0) return '0';
+  const magnitude = Math.abs(x);
+  if (magnitude >= 1e4 || magnitude < 1e-3) return Number(x.toPrecision(digits)).toExponential().replace('e+', 'e');
+  return String(Number(x.toPrecision(digits)));
+}
+
+/** The shape of a wrong gradient in a few words. */
+export function describeDiagnosis(diagnosis: Diagnosis | null): string {
+  if (!diagnosis) return 'wrong';
+  switch (diagnosis.kind) {
+    case 'sign':
+      return 'sign flipped';
+    case 'factor':
+      return `off by a constant factor (${shortNumber(diagnosis.factor, 6)}× the true gradient)`;
+    case 'permutation':
+      return `components swapped (${diagnosis.pairs.map(([i, j]) => `${i} ↔ ${j}`).join(', ')})`;
+    case 'subset':
+      return `${diagnosis.components.length === 1 ? 'component' : 'components'} ${listIndices(diagnosis.components)} wrong`;
+    default:
+      return 'wrong, with no simple pattern';
+  }
+}
+
+export const statusWords: Record<PairStatus, string> = {
+  pass: 'gradient ok',
+  fail: 'gradient wrong',
+  inconclusive: 'gradient undecided',
+  error: 'not checked',
+};
+
+export function listIndices(indices: number[], limit = 6): string {
+  const shown = indices.slice(0, limit).join(', ');
+  return indices.length > limit ? `${shown} and ${indices.length - limit} more` : shown;
+}
