@@ -4,7 +4,7 @@ import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { checkPair, type PairFunctions } from '../../server/src/engine/checkPair';
 import { defaultCheckOptions, type FindingCode, type PairReport } from '../../server/src/engine/types';
-import { makeArray, makeFloat64 } from './testFunctions';
+import { makeArray, makeFloat64 } from '../support/problems';
 
 const plan = (dimension: number | null = null) => ({ dimension, learningRate: null, options: defaultCheckOptions });
 const sphere = (x: ArrayLike<number>) => x[0] ** 2 + x[1] ** 2;

@@ -5,7 +5,7 @@ import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { checkPair, type PairFunctions } from '../../server/src/engine/checkPair';
 import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
-import { makeArray, makeFloat64, moreGarbowHillstrom, rosenbrock, type Gradient, type Objective } from './testFunctions';
+import { makeArray, makeFloat64, engineCoreSet as moreGarbowHillstrom, rosenbrock, type Gradient, type Objective } from '../support/problems';
 
 const plan = (dimension: number | null = null) => ({ dimension, learningRate: null, options: { ...defaultCheckOptions } });
 
@@ -37,7 +37,7 @@ describe('Moré–Garbow–Hillstrom functions at their standard starting points
   for (const fn of moreGarbowHillstrom) {
     test(`${fn.name}: published f(x0), correct gradient passes (arrays and Float64Array)`, () => {
       // f(x0) values from Moré, Garbow & Hillstrom 1981, §3 (see testFunctions.ts for the ones derived by hand).
-      assert.ok(Math.abs(fn.f(fn.start) - fn.startValue) <= 1e-4 * Math.abs(fn.startValue), `${fn.name} f(x0) = ${fn.f(fn.start)}`);
+      assert.ok(Math.abs(fn.f(fn.start) - fn.startValue!) <= 1e-4 * Math.abs(fn.startValue!), `${fn.name} f(x0) = ${fn.f(fn.start)}`);
       assertNoMismatch(check(fn.f, fn.g, [fn.start]), fn.name);
       assertNoMismatch(check(fn.f, fn.g, [fn.start], makeFloat64), `${fn.name} (Float64Array)`);
     });

@@ -3,7 +3,7 @@ import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { checkPair } from '../../server/src/engine/checkPair';
 import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
-import { makeFloat64 } from './testFunctions';
+import { makeFloat64 } from '../support/problems';
 
 // f = Σ w_i x_i² + sin(x_i) with weights 1..7: separable, gradient by hand.
 const objective = (x: ArrayLike<number>) => {

@@ -9,7 +9,7 @@ import { lanczosExtremes } from '../../server/src/engine/lanczos';
 import { createRandom } from '../../server/src/engine/random';
 import { tridiagonalEigenvalues } from '../../server/src/engine/tridiagonal';
 import { defaultCheckOptions, type CheckOptions, type PairReport } from '../../server/src/engine/types';
-import { makeFloat64, rosenbrock } from './testFunctions';
+import { makeFloat64, rosenbrock } from '../support/problems';
 
 function referenceEigenvalues(matrix: number[][]): number[] {
   return [...new EigenvalueDecomposition(new Matrix(matrix), { assumeSymmetric: true }).realEigenvalues].sort((a, b) => a - b);

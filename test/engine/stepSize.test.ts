@@ -4,7 +4,7 @@ import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { checkPair } from '../../server/src/engine/checkPair';
 import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
-import { makeArray } from './testFunctions';
+import { makeArray } from '../support/problems';
 
 // f = ½(x0² + 10·x1²): λmax = 10 by construction. Gradient descent on a quadratic
 // converges iff 0 < α < 2/λmax (Nocedal & Wright 2006, §3.3; common practice).

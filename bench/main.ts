@@ -1,0 +1,63 @@
+// npm run bench: accuracy, smoothness, scale and editor latency, then the report files.
+// Usage: node bench/run.mjs [accuracy] [smoothness] [scale] [latency]   (default: all)
+import { mkdirSync, writeFileSync } from 'node:fs';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { repoRoot } from '../test/support/paths';
+import { runAccuracy } from './accuracy';
+import { runLatency } from './latency';
+import { latestJson, markdown, scaleSvg, type BenchResults } from './report';
+import { runScale } from './scale';
+import { runSmoothness } from './smoothness';
+
+async function main(): Promise<void> {
+  const asked = process.argv.slice(2);
+  const wants = (section: string) => asked.length === 0 || asked.includes(section);
+  const log = (line: string) => console.log(line);
+  const started = Date.now();
+  const results: BenchResults = {
+    machine: { cpus: os.availableParallelism?.() ?? os.cpus().length, cpuModel: os.cpus()[0]?.model.trim() ?? 'unknown', node: process.version, date: new Date().toISOString().slice(0, 10) },
+    accuracy: null,
+    smoothness: null,
+    scale: null,
+    latency: null,
+  };
+  if (wants('accuracy')) {
+    log('accuracy…');
+    const { slopecheck, baseline, ...details } = runAccuracy(log);
+    results.accuracy = { slopecheck, baseline, details };
+  }
+  if (wants('smoothness')) {
+    log('smoothness…');
+    results.smoothness = runSmoothness(log);
+  }
+  if (wants('scale')) {
+    log('scale…');
+    results.scale = await runScale(log);
+  }
+  // Last: the language server is measured as the user meets it.
+  if (wants('latency')) {
+    log('latency…');
+    try {
+      results.latency = await runLatency(log);
+    } catch (error) {
+      results.latency = { medianMs: null, p95Ms: null, firstCheckMs: null, rssMb: null, note: `the language server did not answer as expected: ${(error as Error).message}` };
+    }
+  }
+  const report = markdown(results);
+  console.log(`\n${report}`);
+  const resultsDir = path.join(repoRoot, 'bench', 'results');
+  mkdirSync(resultsDir, { recursive: true });
+  writeFileSync(path.join(resultsDir, 'latest.json'), JSON.stringify(latestJson(results), null, 2) + '\n');
+  writeFileSync(path.join(resultsDir, 'latest.md'), report);
+  if (results.scale) {
+    mkdirSync(path.join(repoRoot, 'docs'), { recursive: true });
+    writeFileSync(path.join(repoRoot, 'docs', 'scale.svg'), scaleSvg(results.scale));
+  }
+  console.log(`bench finished in ${((Date.now() - started) / 1000).toFixed(0)} s; wrote bench/results/latest.json, bench/results/latest.md${results.scale ? ', docs/scale.svg' : ''}`);
+}
+
+main().catch((error) => {
+  console.error(error);
+  process.exit(1);
+});

@@ -1,0 +1,126 @@
+// Turns the measured figures into the console table, bench/results/latest.json,
+// bench/results/latest.md (the README's "Measured" tables) and docs/scale.svg.
+import type { AccuracyResult, CheckerTally } from './accuracy';
+import type { LatencyResult } from './latency';
+import type { ScaleRow } from './scale';
+import type { SmoothnessResult } from './smoothness';
+
+export interface Machine {
+  cpus: number;
+  cpuModel: string;
+  node: string;
+  date: string;
+}
+
+export interface BenchResults {
+  machine: Machine;
+  accuracy: (Pick<AccuracyResult, 'slopecheck' | 'baseline'> & { details: Omit<AccuracyResult, 'slopecheck' | 'baseline'> }) | null;
+  smoothness: SmoothnessResult | null;
+  scale: ScaleRow[] | null;
+  latency: (Omit<Partial<LatencyResult>, 'medianMs' | 'p95Ms' | 'firstCheckMs' | 'rssMb'> & { medianMs: number | null; p95Ms: number | null; firstCheckMs: number | null; rssMb: number | null; note?: string }) | null;
+}
+
+const fmt = (x: number, digits = 2) => (x === 0 ? '0' : Math.abs(x) < 1e-2 || Math.abs(x) >= 1e5 ? x.toExponential(digits - 1) : x.toPrecision(digits + 1));
+const pct = (part: number, whole: number) => (whole === 0 ? '–' : `${((100 * part) / whole).toFixed(1)} %`);
+
+function table(header: string[], rows: Array<Array<string | number>>): string {
+  return [`| ${header.join(' | ')} |`, `| ${header.map(() => '---').join(' | ')} |`, ...rows.map((r) => `| ${r.join(' | ')} |`)].join('\n');
+}
+
+function accuracyTable(s: CheckerTally, b: CheckerTally): string {
+  const rows: Array<Array<string | number>> = [
+    ['correct cases', s.correctCases, b.correctCases],
+    ['false alarms', `${s.falseAlarms} (${pct(s.falseAlarms, s.correctCases)})`, `${b.falseAlarms} (${pct(b.falseAlarms, b.correctCases)})`],
+    ['inconclusive on correct cases', `${s.inconclusiveOnCorrect} (${pct(s.inconclusiveOnCorrect, s.correctCases)})`, `${b.inconclusiveOnCorrect}`],
+    ['bug cases', s.bugCases, b.bugCases],
+    ['bugs caught', `${s.bugsCaught} (${pct(s.bugsCaught, s.bugCases)})`, `${b.bugsCaught} (${pct(b.bugsCaught, b.bugCases)})`],
+    ...Object.keys(s.byKind).map((kind) => [`— ${kind}`, `${s.byKind[kind].caught} / ${s.byKind[kind].cases}`, `${b.byKind[kind].caught} / ${b.byKind[kind].cases}`]),
+    ['inconclusive (all cases)', s.inconclusive, b.inconclusive],
+    ['evaluations per case (f + ∇f, mean)', fmt(s.evaluationsPerCase, 3), fmt(b.evaluationsPerCase, 3)],
+  ];
+  return table(['', 'Slopecheck', 'forward differences, tol 1e-4'], rows);
+}
+
+export function markdown(results: BenchResults): string {
+  const parts: string[] = [];
+  const m = results.machine;
+  parts.push(`Machine: ${m.cpus} × ${m.cpuModel}, Node ${m.node}, ${m.date}.`);
+  if (results.accuracy) {
+    const a = results.accuracy;
+    parts.push('### Accuracy', accuracyTable(a.slopecheck, a.baseline));
+    const missed = a.details.slopecheckMissed;
+    if (missed.length > 0) {
+      parts.push('Bugs Slopecheck did not flag:', table(['case', 'bug', 'relative size', 'verdict', 'why'], missed.map((c) => [c.label, c.kind ?? '', fmt(c.relativeSize ?? NaN), c.verdict, c.why ?? ''])));
+    }
+    for (const [title, notes] of [['False alarms', a.details.slopecheckFalseAlarms], ['Inconclusive on correct cases', a.details.slopecheckInconclusiveOnCorrect]] as const) {
+      if (notes.length > 0) parts.push(`${title}:`, table(['case', 'finding'], notes.map((c) => [c.label, c.detail.replace(/\|/g, '/')])));
+    }
+  }
+  if (results.smoothness) {
+    const s = results.smoothness;
+    const rows = [...s.quadratics, ...s.testSet];
+    parts.push('### Smoothness', table(['problem @ point', 'n', 'λmax (ml-matrix)', 'L̂', 'rel. error L̂', 'λmin (ml-matrix)', 'μ̂', 'rel. error μ̂', 'Hessian-vector products'],
+      rows.map((r) => [r.label, r.n, fmt(r.lambdaMax, 6), fmt(r.lipschitz, 6), fmt(r.relErrL), fmt(r.lambdaMin, 6), fmt(r.mu, 6), fmt(r.relErrMu), r.hessianVectorProducts])));
+    parts.push('Learning-rate verdicts on quadratics against a real run of 3000 gradient steps:', table(['quadratic', 'rate', 'verdict', 'real run', 'agree'],
+      s.rates.map((r) => [r.label, `${r.multiple} × 2/λmax`, r.verdict ?? '–', r.runDiverged ? 'diverged' : 'did not diverge', r.agrees ? 'yes' : '**no**'])));
+  }
+  if (results.scale) {
+    parts.push('### Scale (real sandbox, one wrong component)', table(['n', 'evaluations (f + ∇f)', 'wall time (s)', 'one f (ms)', 'one ∇f (ms)', 'overhead ratio', 'verdict', 'components named'],
+      results.scale.map((r) => [r.n, `${r.evaluations} (${r.objectiveEvaluations} + ${r.gradientEvaluations})`, fmt(r.seconds, 3), fmt(r.objectiveMs, 3), fmt(r.gradientMs, 3), fmt(r.overheadRatio, 3), r.status, r.wrongComponents.join(', ')])));
+    parts.push('![Evaluations against n](docs/scale.svg)');
+  }
+  if (results.latency) {
+    const l = results.latency;
+    if (l.medianMs === null) parts.push('### Editor latency', `Not measured: ${l.note}`);
+    else {
+      parts.push('### Editor latency (dist/server.js over stdio, save → diagnostics)', table(['fixture', 'median (ms)', 'p95 (ms)'], (l.fixtures ?? []).map((f) => [f.file, fmt(f.medianMs, 3), fmt(f.p95Ms, 3)])));
+      parts.push(`All saves: median ${fmt(l.medianMs, 3)} ms, p95 ${fmt(l.p95Ms!, 3)} ms; first check after start ${fmt(l.firstCheckMs!, 3)} ms (${fmt(l.startToFirstDiagnosticsMs ?? NaN, 3)} ms from process start). ` +
+        `Memory after ${l.checks} checks: server ${fmt(l.serverRssMb ?? NaN, 3)} MB + sandbox ${fmt(l.sandboxRssMb ?? NaN, 3)} MB = ${fmt(l.rssMb!, 3)} MB RSS; growth over the last 500 checks ${fmt(l.growthOverLast500Mb ?? NaN, 3)} MB.`);
+    }
+  }
+  return parts.join('\n\n') + '\n';
+}
+
+/** Evaluations (and wall time) against n, log scale on x; written from the measured rows. */
+export function scaleSvg(rows: ScaleRow[]): string {
+  const [width, height, left, right, top, bottom] = [640, 360, 70, 70, 30, 50];
+  const xs = rows.map((r) => Math.log10(r.n));
+  const [xMin, xMax] = [Math.min(...xs), Math.max(...xs)];
+  const yMax = Math.max(...rows.map((r) => r.evaluations)) * 1.2;
+  const tMax = Math.max(...rows.map((r) => r.seconds)) * 1.2;
+  const px = (x: number) => left + ((x - xMin) / (xMax - xMin || 1)) * (width - left - right);
+  const py = (y: number, max: number) => height - bottom - (y / max) * (height - top - bottom);
+  const evalPoints = rows.map((r, k) => `${px(xs[k]).toFixed(1)},${py(r.evaluations, yMax).toFixed(1)}`);
+  const timePoints = rows.map((r, k) => `${px(xs[k]).toFixed(1)},${py(r.seconds, tMax).toFixed(1)}`);
+  const xTicks = rows.map((r, k) => `<text x="${px(xs[k]).toFixed(1)}" y="${height - bottom + 18}" text-anchor="middle">${r.n.toLocaleString('en-US')}</text>`);
+  const yTicks = [0, 0.25, 0.5, 0.75, 1].map((f) => `<text x="${left - 8}" y="${(py(f * yMax, yMax) + 4).toFixed(1)}" text-anchor="end">${Math.round(f * yMax)}</text><line x1="${left}" x2="${width - right}" y1="${py(f * yMax, yMax).toFixed(1)}" y2="${py(f * yMax, yMax).toFixed(1)}" stroke="#ddd"/>`);
+  const tTicks = [0, 0.5, 1].map((f) => `<text x="${width - right + 8}" y="${(py(f * tMax, tMax) + 4).toFixed(1)}" fill="#c0392b">${fmt(f * tMax, 2)}</text>`);
+  return `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" font-family="sans-serif" font-size="12">
+<rect width="100%" height="100%" fill="white"/>
+<text x="${width / 2}" y="18" text-anchor="middle" font-size="14">Evaluations per check against dimension n (written by npm run bench)</text>
+${yTicks.join('\n')}
+${xTicks.join('\n')}
+${tTicks.join('\n')}
+<line x1="${left}" y1="${height - bottom}" x2="${width - right}" y2="${height - bottom}" stroke="black"/>
+<line x1="${left}" y1="${top}" x2="${left}" y2="${height - bottom}" stroke="black"/>
+<polyline points="${evalPoints.join(' ')}" fill="none" stroke="#2c6fbb" stroke-width="2"/>
+${evalPoints.map((p) => `<circle cx="${p.split(',')[0]}" cy="${p.split(',')[1]}" r="4" fill="#2c6fbb"/>`).join('\n')}
+<polyline points="${timePoints.join(' ')}" fill="none" stroke="#c0392b" stroke-width="1.5" stroke-dasharray="5,4"/>
+<text x="${width / 2}" y="${height - 12}" text-anchor="middle">n (log scale)</text>
+<text x="16" y="${height / 2}" text-anchor="middle" transform="rotate(-90 16 ${height / 2})" fill="#2c6fbb">evaluations (f + ∇f)</text>
+<text x="${width - 14}" y="${height / 2}" text-anchor="middle" transform="rotate(90 ${width - 14} ${height / 2})" fill="#c0392b">wall time (s), dashed</text>
+</svg>
+`;
+}
+
+/** The figures other tools read, under the names the product promises, plus the details. */
+export function latestJson(results: BenchResults): object {
+  const strip = (t: CheckerTally) => ({ correctCases: t.correctCases, falseAlarms: t.falseAlarms, bugCases: t.bugCases, bugsCaught: t.bugsCaught, inconclusive: t.inconclusive, inconclusiveOnCorrect: t.inconclusiveOnCorrect, evaluationsPerCase: t.evaluationsPerCase, byKind: t.byKind });
+  return {
+    machine: results.machine,
+    accuracy: results.accuracy && { slopecheck: strip(results.accuracy.slopecheck), baseline: strip(results.accuracy.baseline), details: results.accuracy.details },
+    smoothness: results.smoothness,
+    scale: results.scale,
+    latency: results.latency,
+  };
+}
