@@ -2,6 +2,7 @@
 // say why instead of failing silently.
 import * as vscode from 'vscode';
 import { methods, type DocumentParams, type PairListing } from '../../server/src/shared/protocol';
+import { verdictWords } from '../../server/src/shared/verdictWords';
 import { commandIds } from './commandIds';
 import { pairAtCursor, symbolSpans, type SymbolLike } from './pairAtCursor';
 import type { ReportPanels } from './report/panel';
@@ -14,13 +15,7 @@ interface Services {
   log: vscode.LogOutputChannel;
 }
 
-const statusWords: Record<PairListing['status'], string> = {
-  pass: 'gradient matches',
-  fail: 'gradient is wrong',
-  inconclusive: 'undecided',
-  error: 'not checked',
-  pending: 'not checked yet',
-};
+const statusWords: Record<PairListing['status'], string> = { ...verdictWords, pending: 'not checked yet' };
 
 export function registerCommands({ server, panels, log }: Services): vscode.Disposable[] {
   const guarded =

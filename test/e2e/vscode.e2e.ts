@@ -71,7 +71,7 @@ describe('Slopecheck in VS Code, trusted workspace', { timeout: 240_000 }, () =>
     const objective = demo.declarationOf('src/calibration.ts', 'salinityCalibration');
     await workbench.goTo(objective.line, objective.column);
     const card = await workbench.hoverText('salinityCalibration', 'safe step 1/L̂');
-    assert.match(card, /gradient ok/, `the card gives the verdict: ${card}`);
+    assert.match(card, /gradient matches/, `the card gives the verdict: ${card}`);
     // L = 7.3565 for this quadratic objective: largest Hessian eigenvalue, computed with ml-matrix
     // EigenvalueDecomposition when the demo was built (fixtures/demo/expected.json).
     const lipschitz = expectedPair('salinityCalibration').learningRate!.lipschitz;
@@ -108,7 +108,7 @@ describe('Slopecheck in VS Code, trusted workspace', { timeout: 240_000 }, () =>
     await workbench.openFile('calibration.ts');
     const objective = demo.declarationOf('src/calibration.ts', 'salinityCalibration');
     await workbench.goTo(objective.line, objective.column);
-    await workbench.expectVisible(workbench.codeLens('gradient ok · step ≤'), 'the code lens "gradient ok · step ≤ …" above salinityCalibration');
+    await workbench.expectVisible(workbench.codeLens('gradient matches · step ≤'), 'the code lens "gradient matches · step ≤ …" above salinityCalibration');
 
     await workbench.runCommand("Slopecheck: Check This Objective's Gradient");
     await workbench.expectVisible(workbench.page.locator('.tab', { hasText: 'Gradient report: salinityCalibration' }), 'the tab "Gradient report: salinityCalibration"');

@@ -4,7 +4,7 @@ import { test } from 'node:test';
 import type { DocumentCheck, PairOutcome } from '../../server/src/check/checkDocument';
 import { discoverPairs } from '../../server/src/discovery/discover';
 import type { PairReport, ProbeReport } from '../../server/src/engine/types';
-import { lensTitle } from '../../server/src/lsp/codeLens';
+import { lensTitle, pairLenses } from '../../server/src/lsp/codeLens';
 import { toDiagnostics } from '../../server/src/lsp/diagnostics';
 import { gradientPatch, type FixableDiagnosis } from '../../server/src/lsp/gradientPatch';
 import { hoverMarkdown } from '../../server/src/lsp/hover';
@@ -61,7 +61,7 @@ test('hover card: verdict, error, local steps, probes and cost, with the caution
     })),
     false,
   );
-  assert.match(card, /^\*\*`fit` → `fitGrad`\*\* · gradient ok/);
+  assert.match(card, /^\*\*`fit` → `fitGrad`\*\* · gradient matches/);
   assert.match(card, /max relative error \| 2\.5e-12 \|/);
   assert.match(card, /safe step 1\/L̂ \| 0\.0269 \|/);
   assert.match(card, /divergence at 2\/L̂ \| 0\.0537 \|/);
@@ -74,10 +74,12 @@ test('hover card: verdict, error, local steps, probes and cost, with the caution
 
 test('lens titles', () => {
   const pass = outcomeOf(pairText, report({ smoothness: { lipschitz: 37.215, mu: 1, kappa: 37, safeStep: 1 / 37.215, divergenceStep: 2 / 37.215 } }));
-  assert.equal(lensTitle(pass, false), 'gradient ok · step ≤ 2.6e-2 (local estimate)');
+  assert.equal(lensTitle(pass, false), 'gradient matches · step ≤ 0.026 (local estimate)');
   assert.equal(lensTitle(outcomeOf(pairText, report({ status: 'fail', diagnosis: { kind: 'sign' } })), false), 'gradient wrong: sign flipped');
   assert.equal(lensTitle(outcomeOf(pairText, report({ status: 'fail', diagnosis: { kind: 'permutation', pairs: [[0, 1]] } })), false), 'gradient wrong: components swapped (0 ↔ 1)');
   assert.equal(lensTitle(null, true), 'checking…');
+  const untrusted = pairLenses('file:///x.ts', outcomeOf(pairText, report({})).pair, null, false, false);
+  assert.deepEqual(untrusted.map((lens) => lens.command?.title), ['not checked: the workspace is not trusted']);
   assert.equal(lensTitle(outcomeOf(pairText, errorReport([{ code: 'timeout', severity: 'error', subject: 'objective', message: 'slow' }])), false), 'not checked: timeout');
 });
 
@@ -98,9 +100,9 @@ test('per-probe mismatches merge into one diagnostic with the worst probe; runti
   const diagnostics = toDiagnostics(check, { uri: 'file:///w/fit.ts', text: pairText, relatedInformation: true });
   assert.equal(diagnostics.length, 2);
   const [merged, thrown] = diagnostics;
-  assert.equal(merged.message, 'fitGrad disagrees with central differences of fit: sign flipped. At probe 1, component 0: analytic 48, numerical -48 ± 1e-12. Seen at 2 of 2 probes.');
+  assert.equal(merged.message, 'fitGrad disagrees with central differences of fit: sign flipped. At probe 2, component 0: analytic 48, numerical -48 ± 1e-12. Seen at 2 of 2 probes.');
   assert.deepEqual(merged.range, { start: { line: 5, character: 16 }, end: { line: 5, character: 23 } });
-  assert.deepEqual(merged.relatedInformation?.map((r) => [r.message, r.location.range.start.line]), [['objective fit', 4], ['probe 1', 2]]);
+  assert.deepEqual(merged.relatedInformation?.map((r) => [r.message, r.location.range.start.line]), [['objective fit', 4], ['probe 2', 2]]);
   assert.deepEqual(merged.data, { objective: 'fit' });
   assert.deepEqual(thrown.range, { start: { line: 4, character: 0 }, end: { line: 4, character: pairText.split('\n')[4].length } });
   assert.equal(thrown.code, 'runtime-error');

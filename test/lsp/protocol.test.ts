@@ -176,7 +176,7 @@ describe('a full client', () => {
     const lenses = await client.request<CodeLens[]>('textDocument/codeLens', { textDocument: { uri } });
     const on = (name: string) => lenses.filter((l) => l.range.start.line === rangeOf(text, name).start.line);
     // expected.json: L = 7.3565 for salinityCalibration, 1/L = 0.1359 → 0.13.
-    assert.equal(on('salinityCalibration')[0].command!.title, 'gradient ok · step ≤ 1.3e-1 (local estimate)');
+    assert.equal(on('salinityCalibration')[0].command!.title, 'gradient matches · step ≤ 0.13 (local estimate)');
     assert.deepEqual(on('salinityCalibration')[0].command!.arguments, [uri, 'salinityCalibration']);
     assert.equal(on('salinityCalibration')[0].command!.command, 'slopecheck.openReport');
     assert.deepEqual(on('salinityCalibration')[1].command, { title: 'check again', command: 'slopecheck.checkAgain', arguments: [uri] });

@@ -1,17 +1,13 @@
 // The report's content as an HTML string: the verdict, the caution, the figures,
 // the four plots and the per-component table. Pure, so it is tested under node;
 // the webview script only inserts it. Every text from the user's code is escaped.
-import type { Diagnosis, PairReport, PairStatus, ProbeReport } from '../../../server/src/engine/types';
+import type { Diagnosis, PairReport, ProbeReport } from '../../../server/src/engine/types';
 import type { PairReportResult } from '../../../server/src/shared/protocol';
+import { verdictWords } from '../../../server/src/shared/verdictWords';
 import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from './format';
 import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
 
-const verdicts: Record<PairStatus, string> = {
-  pass: 'gradient matches',
-  fail: 'gradient is wrong',
-  inconclusive: 'undecided',
-  error: 'not checked',
-};
+const verdicts = verdictWords;
 
 export const localEstimateCaution =
   'Every smoothness figure (L̂, μ̂, κ̂, 1/L̂, 2/L̂) is a local estimate measured near the probe points, not a bound over the whole domain: far from the probes the objective may be much steeper.';

@@ -3,21 +3,21 @@ import type { CodeLens } from 'vscode-languageserver';
 import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair } from '../discovery/types';
 import { toRange } from './diagnostics';
-import { describeDiagnosis, floorToSignificant, statusWords } from './wording';
+import { describeDiagnosis, floorToSignificant, shortNumber, statusWords } from './wording';
 
 export const commands = {
   openReport: 'slopecheck.openReport',
   checkAgain: 'slopecheck.checkAgain',
 } as const;
 
-/** E.g. "gradient ok · step ≤ 2.6e-2 (local estimate)" or "gradient wrong: sign flipped". */
+/** E.g. "gradient ok · step ≤ 0.026 (local estimate)" or "gradient wrong: sign flipped". */
 export function lensTitle(outcome: PairOutcome | null, checking: boolean): string {
   if (!outcome) return checking ? 'checking…' : 'not checked yet';
   const { report } = outcome;
   switch (report.status) {
     case 'pass': {
       const step = report.smoothness ? floorToSignificant(report.smoothness.safeStep, 2) : null;
-      return step === null ? statusWords.pass : `${statusWords.pass} · step ≤ ${step.toExponential(1).replace('e+', 'e')} (local estimate)`;
+      return step === null ? statusWords.pass : `${statusWords.pass} · step ≤ ${shortNumber(step, 2)} (local estimate)`;
     }
     case 'fail':
       return `${statusWords.fail}: ${describeDiagnosis(report.diagnosis)}`;
@@ -28,8 +28,10 @@ export function lensTitle(outcome: PairOutcome | null, checking: boolean): strin
   }
 }
 
-export function pairLenses(uri: string, pair: DiscoveredPair, outcome: PairOutcome | null, checking: boolean): CodeLens[] {
+export function pairLenses(uri: string, pair: DiscoveredPair, outcome: PairOutcome | null, checking: boolean, trusted = true): CodeLens[] {
   const range = toRange(pair.objective.nameSpan);
+  // In an untrusted workspace nothing runs, so there is nothing to open and no check to start.
+  if (!trusted) return [{ range, command: { title: 'not checked: the workspace is not trusted', command: '' } }];
   const title = pair.skipped ? 'not checked (slopecheck-skip)' : lensTitle(outcome, checking);
   return [
     { range, command: { title, command: commands.openReport, arguments: [uri, pair.objective.name] } },

@@ -102,7 +102,7 @@ function mismatchMessage(outcome: PairOutcome, worst: Finding, findings: Finding
   const wrong = probe?.components.filter((c) => c.mismatch) ?? [];
   const details =
     probe && wrong.length > 0
-      ? `At probe ${worst.probeIndex}, ` +
+      ? `At probe ${(worst.probeIndex ?? 0) + 1}, ` +
         wrong
           .slice(0, shownComponents)
           .map((c) => `component ${c.index}: analytic ${formatValue(c.analytic)}, numerical ${formatValue(c.numerical)} ± ${formatBound(c.errorBound)}`)
@@ -135,7 +135,7 @@ function relatedInformation(outcome: PairOutcome, finding: Finding, uri: string)
   if (finding.probeIndex !== undefined && tags.length > 0) {
     // Tags and probes line up one to one only when every probe came from its own tag.
     const tag = tags.length === outcome.report.probes.length ? tags[finding.probeIndex] : tags[0];
-    if (tag) at(tag, `probe ${finding.probeIndex}`);
+    if (tag) at(tag, `probe ${finding.probeIndex + 1}`);
   }
   return related;
 }

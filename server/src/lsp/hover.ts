@@ -38,7 +38,7 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
   const rows: Array<[string, string]> = [];
   if (report.maxRelError !== null) rows.push(['max relative error', shortNumber(report.maxRelError)]);
   if (s) {
-    rows.push(['L̂ (curvature bound near the probes)', shortNumber(s.lipschitz)]);
+    rows.push(['L̂ (local Lipschitz estimate)', shortNumber(s.lipschitz)]);
     rows.push(['safe step 1/L̂', shortNumber(s.safeStep)]);
     rows.push(['divergence at 2/L̂', shortNumber(s.divergenceStep)]);
     rows.push(['μ̂ (smallest curvature)', `${shortNumber(s.mu)}${s.mu < 0 ? ' (not convex here)' : ''}`]);

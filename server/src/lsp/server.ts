@@ -122,7 +122,7 @@ export function startServer(connection: Connection): void {
     const document = documents.get(textDocument.uri);
     if (!document) return [];
     const checking = checks.isChecking(document.uri);
-    return pairsOf(document).flatMap((pair) => pairLenses(document.uri, pair, checks.outcome(document.uri, pair.objective.name), checking));
+    return pairsOf(document).flatMap((pair) => pairLenses(document.uri, pair, checks.outcome(document.uri, pair.objective.name), checking, trusted));
   });
 
   connection.onCodeAction(async ({ textDocument, context }, token) => {

@@ -37,12 +37,7 @@ export function describeDiagnosis(diagnosis: Diagnosis | null): string {
   }
 }
 
-export const statusWords: Record<PairStatus, string> = {
-  pass: 'gradient ok',
-  fail: 'gradient wrong',
-  inconclusive: 'gradient undecided',
-  error: 'not checked',
-};
+export { verdictWords as statusWords } from '../shared/verdictWords';
 
 export function listIndices(indices: number[], limit = 6): string {
   const shown = indices.slice(0, limit).join(', ');
