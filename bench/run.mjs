@@ -1,27 +1,12 @@
 // Compiles bench/main.ts with esbuild (packages external) and runs it.
 // Usage: node bench/run.mjs [section...]   sections: accuracy smoothness scale latency (default: all)
-import * as esbuild from 'esbuild';
-import { spawnSync } from 'node:child_process';
 import { rmSync } from 'node:fs';
 import * as path from 'node:path';
+import { compileForNode, repoRoot, runNode } from '../test/support/compile.mjs';
 
-const root = path.resolve(import.meta.dirname ?? path.dirname(new URL(import.meta.url).pathname), '..');
-const outdir = path.join(root, '.bench-build', String(process.pid));
+const benchRoot = path.join(repoRoot, 'bench');
+const outdir = path.join(repoRoot, '.bench-build', String(process.pid));
+const [main] = await compileForNode([path.join(benchRoot, 'main.ts')], { outdir, outbase: benchRoot });
+const status = runNode([main, ...process.argv.slice(2)]);
 rmSync(outdir, { recursive: true, force: true });
-await esbuild.build({
-  entryPoints: [path.join(root, 'bench', 'main.ts')],
-  outdir,
-  bundle: true,
-  platform: 'node',
-  target: 'node20',
-  format: 'cjs',
-  sourcemap: 'inline',
-  packages: 'external',
-  logLevel: 'warning',
-});
-const run = spawnSync(process.execPath, ['--enable-source-maps', path.join(outdir, 'main.js'), ...process.argv.slice(2)], {
-  stdio: 'inherit',
-  env: { ...process.env, SLOPECHECK_ROOT: root },
-});
-rmSync(outdir, { recursive: true, force: true });
-process.exit(run.status ?? 1);
+process.exit(status);
