@@ -5,6 +5,9 @@
 # under .e2e-tools/ so nothing shadows the project's Node.
 set -euo pipefail
 cd "$(dirname "$0")/../.."
+# Run from `npm test`, this inherits the outer npm's npm_* variables (its user agent names Node 20, which
+# code-server's install script reads as the Node in use): the nested installs must not see them.
+unset $(env | grep -o '^npm_[A-Za-z0-9_]*' || true)
 tools="$PWD/.e2e-tools"
 node24_version=24.21.0
 code_server_version=4.139.1
