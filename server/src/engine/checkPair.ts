@@ -60,10 +60,10 @@ function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, 
   };
   if (Array.isArray(probes) && probes.length > 0) {
     const n = probes[0].length;
-    if (!(n > 0)) return bad('probe 0 has no coordinates');
+    if (!(n > 0)) return bad('probe 1 has no coordinates');
     for (let p = 0; p < probes.length; p++) {
-      if (probes[p].length !== n) return bad(`probe ${p} has ${probes[p].length} coordinates but probe 0 has ${n}`);
-      if (!probes[p].every((v) => typeof v === 'number' && Number.isFinite(v))) return bad(`probe ${p} has a coordinate that is not a finite number`);
+      if (probes[p].length !== n) return bad(`probe ${p + 1} has ${probes[p].length} coordinates but probe 1 has ${n}`);
+      if (!probes[p].every((v) => typeof v === 'number' && Number.isFinite(v))) return bad(`probe ${p + 1} has a coordinate that is not a finite number`);
     }
     report.dimension = n;
     return probes.map((probe) => Float64Array.from(probe));
@@ -106,7 +106,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
       severity: 'warning',
       subject: 'objective',
       probeIndex: unrepeatable[0].context.probeIndex,
-      message: `the objective returns different values for the same point (probe ${unrepeatable[0].context.probeIndex}: ${unrepeatable[0].report.value}, then ${unrepeatable[0].repeatedValue}); randomness or hidden state makes finite differences unreliable`,
+      message: `the objective returns different values for the same point (probe ${unrepeatable[0].context.probeIndex + 1}: ${unrepeatable[0].report.value}, then ${unrepeatable[0].repeatedValue}); randomness or hidden state makes finite differences unreliable`,
     });
   }
   const undecided = outcomes.filter((o) => o.undecided);

@@ -98,7 +98,9 @@ export function diagnoseComponents(components: ComponentCheck[], decidable: numb
 /** Diagnosis from random directions alone: only a whole-gradient sign or factor shows there. */
 export function diagnoseDirections(directions: DirectionalCheck[]): Diagnosis | null {
   const mismatched = directions.filter((d) => d.mismatch);
-  if (mismatched.length === 0) return null;
+  // A wrong sign or factor on the whole gradient shows along every random direction; a ratio seen
+  // along fewer is one wrong component seen through a direction, which localisation must find.
+  if (mismatched.length < 2 || mismatched.length < directions.length) return null;
   const others = directions.filter((d) => !d.mismatch && d.errorBound <= 0.1 * Math.max(Math.abs(d.analytic), Math.abs(d.numerical)));
   return constantRatio(mismatched, others);
 }

@@ -1,10 +1,10 @@
 // Gradient check for large dimensions: ∇f·v against the directional central
-// difference along seeded random directions, then group testing on index ranges
-// to find the wrong components with O(k log n) difference estimates.
+// difference along seeded random directions (wrong components are then located
+// by localise.ts).
 import type { DerivativeEstimate } from './differences';
 import { checkDirection, initialRelativeStep, type Judgement, type ProbeContext } from './probeContext';
 import type { Random } from './random';
-import type { ComponentCheck, DirectionalCheck } from './types';
+import type { DirectionalCheck } from './types';
 
 export interface DirectionalResult {
   directions: DirectionalCheck[];
@@ -66,62 +66,4 @@ export function checkRandomDirections(context: ProbeContext, random: Random, cou
     if (k === 0) result.firstDirection = { direction, step: test.numerical.step, numerical: test.numerical.value };
   }
   return result;
-}
-
-export interface Localisation {
-  components: ComponentCheck[];
-  /** Group tests spent. */
-  tests: number;
-  /** The budget ran out before every wrong range was narrowed to one component. */
-  exhausted: boolean;
-}
-
-/**
- * Adaptive group testing by bisection of index ranges (common practice in
- * combinatorial group testing). A range is wrong when a random direction
- * supported on it gives a mismatch; when the left half of a wrong range tests
- * clean, the right half must hold the error and is not tested again.
- */
-export function localiseWrongComponents(context: ProbeContext, random: Random, budget: number): Localisation {
-  const found: ComponentCheck[] = [];
-  let tests = 0;
-  let exhausted = false;
-  const pending: Array<[number, number]> = [[0, context.x.length]];
-  const isWrong = (from: number, to: number): boolean => {
-    tests++;
-    return testRange(context, random, from, to).verdict.mismatch;
-  };
-  while (pending.length > 0) {
-    const [from, to] = pending.pop()!;
-    if (to - from === 1) {
-      found.push(componentCheck(context, from));
-      continue;
-    }
-    if (tests + 2 > budget) {
-      exhausted = true;
-      break;
-    }
-    const middle = from + Math.floor((to - from) / 2);
-    const leftWrong = isWrong(from, middle);
-    const rightWrong = leftWrong ? isWrong(middle, to) : true;
-    if (rightWrong) pending.push([middle, to]);
-    if (leftWrong) pending.push([from, middle]);
-  }
-  found.sort((a, b) => a.index - b.index);
-  return { components: found.filter((c) => c.mismatch), tests, exhausted };
-}
-
-function testRange(context: ProbeContext, random: Random, from: number, to: number): RangeTest {
-  // Unconfirmed here: a false positive range only costs tests, since every
-  // component it leads to is checked and confirmed on its own.
-  return testDirection(context, rangeDirection(context, random, from, to), from, to, { minLevels: 3, confirm: false });
-}
-
-/** One coordinate, checked exactly as the full check would. */
-function componentCheck(context: ProbeContext, index: number): ComponentCheck {
-  const direction = new Float64Array(context.x.length);
-  direction[index] = 1;
-  const analytic = context.gradient[index];
-  const { numerical, verdict } = checkDirection(context, direction, initialRelativeStep(context) * Math.max(Math.abs(context.x[index]), 1), analytic, Math.abs(analytic), context.gradientUnit);
-  return { index, analytic: context.gradient[index], numerical: numerical.value, errorBound: verdict.errorBound, relError: verdict.relError, mismatch: verdict.mismatch };
 }

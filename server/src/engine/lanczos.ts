@@ -1,7 +1,7 @@
 // Extreme eigenvalues of a symmetric operator known only through products H·v:
 // Lanczos with full reorthogonalisation (Golub & Van Loan, Matrix Computations,
 // 4th ed., 2013, §10.1 and §10.3.1).
-import { tridiagonalEigenvalues } from './tridiagonal';
+import { tridiagonalEigenvalues, tridiagonalEigenvector } from './tridiagonal';
 import { dot, norm2 } from './vectors';
 
 export interface LanczosResult {
@@ -9,12 +9,20 @@ export interface LanczosResult {
   lambdaMin: number;
   /** Ritz values of the final tridiagonal matrix, ascending. */
   ritzValues: number[];
+  /**
+   * Residual norms ‖Hy − θy‖ of the extreme Ritz pairs: some eigenvalue of H lies
+   * within each of its Ritz value (not necessarily the extreme one, which an
+   * unlucky start can miss). Zero when the Krylov space became invariant.
+   */
+  lambdaMaxResidual: number;
+  lambdaMinResidual: number;
   /** Operator products spent. */
   products: number;
 }
 
-// Extreme Ritz values that move less than this (relative) for two steps are taken as converged.
-const convergedChange = 1e-10;
+// Extreme Ritz pairs whose residual is below this fraction of the spectrum's scale are
+// converged: each then lies that close to an eigenvalue (Parlett 1998, §4.5, from memory).
+const convergedResidual = 1e-8;
 
 /**
  * `multiply` may return null when the product cannot be formed (non-finite
@@ -26,8 +34,8 @@ export function lanczosExtremes(multiply: (v: Float64Array) => Float64Array | nu
   const diagonal: number[] = [];
   const offDiagonal: number[] = [];
   let ritzValues: number[] = [];
+  let residuals = { lambdaMax: Number.POSITIVE_INFINITY, lambdaMin: Number.POSITIVE_INFINITY };
   let products = 0;
-  let quietSteps = 0;
   const startNorm = norm2(start);
   if (!(startNorm > 0)) return null;
   let q = start.map((value) => value / startNorm);
@@ -52,20 +60,26 @@ export function lanczosExtremes(multiply: (v: Float64Array) => Float64Array | nu
       }
       if (norm2(w) > 0.7 * before) break;
     }
-    const previous = ritzValues;
     ritzValues = tridiagonalEigenvalues(diagonal, offDiagonal);
     const scale = Math.max(Math.abs(ritzValues[0]), Math.abs(ritzValues[ritzValues.length - 1]), Number.MIN_VALUE);
     const beta = norm2(w);
-    // An invariant subspace: the Ritz values are exact eigenvalues.
-    if (beta <= 1e-12 * scale || !Number.isFinite(beta)) break;
-    if (previous.length > 0) {
-      const moved = Math.max(Math.abs(ritzValues[0] - previous[0]), Math.abs(ritzValues[ritzValues.length - 1] - previous[previous.length - 1]));
-      quietSteps = moved <= convergedChange * scale ? quietSteps + 1 : 0;
-      if (quietSteps >= 2) break;
-    }
+    if (!Number.isFinite(beta)) break;
+    residuals = { lambdaMax: ritzResidual(diagonal, offDiagonal, ritzValues[ritzValues.length - 1], beta), lambdaMin: ritzResidual(diagonal, offDiagonal, ritzValues[0], beta) };
+    // Both ends converged, or an invariant subspace (the Ritz values are then exact eigenvalues).
+    if (Math.max(residuals.lambdaMax, residuals.lambdaMin) <= convergedResidual * scale || beta <= 1e-12 * scale) break;
     offDiagonal.push(beta);
     q = w.map((value) => value / beta);
   }
   if (diagonal.length === 0) return null;
-  return { lambdaMax: ritzValues[ritzValues.length - 1], lambdaMin: ritzValues[0], ritzValues, products };
+  return { lambdaMax: ritzValues[ritzValues.length - 1], lambdaMin: ritzValues[0], ritzValues, lambdaMaxResidual: residuals.lambdaMax, lambdaMinResidual: residuals.lambdaMin, products };
+}
+
+/**
+ * ‖Hy − θy‖ = β_k·|s_k| for the Ritz vector y = Q_k·s of T_k s = θs, where s_k is
+ * the last component of s (Parlett, The Symmetric Eigenvalue Problem, 1998, §13.2;
+ * Golub & Van Loan 2013, §10.1.4, section from memory). Costs no product with H.
+ */
+function ritzResidual(diagonal: number[], offDiagonal: number[], theta: number, beta: number): number {
+  const s = tridiagonalEigenvector(diagonal, offDiagonal, theta);
+  return beta * Math.abs(s[s.length - 1]);
 }

@@ -2,9 +2,10 @@
 // the full or directional comparison, its diagnosis and its findings.
 import { studySteps } from './differences';
 import { describeDiagnosis, diagnoseComponents, diagnoseDirections } from './diagnosis';
-import { checkRandomDirections, localiseWrongComponents, type DirectionalResult } from './directionalCheck';
+import { checkRandomDirections, type DirectionalResult } from './directionalCheck';
 import { formatBound, formatList, formatValue } from './format';
 import { checkEveryComponent, type FullCheckResult } from './fullCheck';
+import { localiseWrongComponents } from './localise';
 import { estimateNoise } from './noise';
 import { gradientUnitOf, type ProbeContext } from './probeContext';
 import type { Random } from './random';
@@ -31,18 +32,18 @@ export interface ProbeOutcome {
 
 /** Shown coordinates of a probe in the report. */
 const shownCoordinates = 64;
-// Group tests allowed for localising wrong components at one probe.
+// Difference estimates (pooled and coordinate) allowed for locating wrong components at one probe.
 const localisationBudget = 80;
 
 export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number, options: CheckOptions, noiseRandom: Random, directionRandom: Random, localise: boolean): ProbeOutcome {
   const site: CallSite = { probeIndex, point: 'the probe' };
   const value = calls.objective(x, site);
-  if (!Number.isFinite(value)) throw new CheckStopped(makeFinding('non-finite-value', 'objective', `the objective is ${value} at probe ${probeIndex}`, site));
+  if (!Number.isFinite(value)) throw new CheckStopped(makeFinding('non-finite-value', 'objective', `the objective is ${value} at probe ${probeIndex + 1}`, site));
   const gradient = calls.gradient(x, site);
   const nonFinite: number[] = [];
   for (let i = 0; i < gradient.length; i++) if (!Number.isFinite(gradient[i])) nonFinite.push(i);
   if (nonFinite.length > 0) {
-    const finding = makeFinding('non-finite-value', 'gradient', `the gradient has non-finite values at probe ${probeIndex}: ${nonFinite.slice(0, 8).map((i) => `component ${i} = ${gradient[i]}`).join(', ')}${nonFinite.length > 8 ? ` and ${nonFinite.length - 8} more` : ''}`, site);
+    const finding = makeFinding('non-finite-value', 'gradient', `the gradient has non-finite values at probe ${probeIndex + 1}: ${nonFinite.slice(0, 8).map((i) => `component ${i} = ${gradient[i]}`).join(', ')}${nonFinite.length > 8 ? ` and ${nonFinite.length - 8} more` : ''}`, site);
     finding.components = nonFinite;
     throw new CheckStopped(finding);
   }
@@ -105,7 +106,7 @@ function runFull(outcome: ProbeOutcome): void {
   if (!outcome.mismatch) return;
   outcome.diagnosis = diagnoseComponents(full.components, full.decidable, true);
   const shape = outcome.diagnosis ? `${describeDiagnosis(outcome.diagnosis)}. ` : '';
-  const finding = makeFinding('gradient-mismatch', 'gradient', `gradient disagrees with central differences at probe ${outcome.context.probeIndex}: ${shape}${describeComponents(mismatched)}`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
+  const finding = makeFinding('gradient-mismatch', 'gradient', `gradient disagrees with central differences at probe ${outcome.context.probeIndex + 1}: ${shape}${describeComponents(mismatched)}`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
   finding.components = mismatched.map((c) => c.index);
   outcome.findings.push(finding);
 }
@@ -126,7 +127,7 @@ function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Ra
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, []));
   if (!outcome.mismatch) return;
   const example = mismatched[0];
-  let text = `gradient disagrees with directional central differences at probe ${context.probeIndex} along ${mismatched.length} of ${directional.directions.length} random directions (e.g. ∇f·v = ${formatValue(example.analytic)}, numerical ${formatValue(example.numerical)} ± ${formatBound(example.errorBound)})`;
+  let text = `gradient disagrees with directional central differences at probe ${context.probeIndex + 1} along ${mismatched.length} of ${directional.directions.length} random directions (e.g. ∇f·v = ${formatValue(example.analytic)}, numerical ${formatValue(example.numerical)} ± ${formatBound(example.errorBound)})`;
   outcome.diagnosis = diagnoseDirections(directional.directions);
   let components: number[] = [];
   if (outcome.diagnosis) {
@@ -141,7 +142,7 @@ function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Ra
     outcome.diagnosis = diagnoseComponents(found.components, [], false) ?? { kind: 'unknown' };
     text += `: ${describeDiagnosis(outcome.diagnosis)}`;
     if (found.components.length > 0) text += `. ${describeComponents(found.components)}`;
-    text += ` (located by ${found.tests} group tests${found.exhausted ? '; the search budget ran out, so more components may be wrong' : ''})`;
+    text += ` (located by ${found.pooledDifferences} pooled directional and ${found.coordinateDifferences} coordinate differences${found.incomplete ? '; the search stopped before every discrepancy was explained, so more components may be wrong' : ''})`;
   }
   const finding = makeFinding('gradient-mismatch', 'gradient', text, { probeIndex: context.probeIndex, point: 'the probe' });
   if (components.length > 0) finding.components = components;
@@ -171,7 +172,7 @@ function describeComponents(components: ComponentCheck[], limit = 4): string {
 
 function nonSmoothFinding(outcome: ProbeOutcome, components: number[]): Finding {
   const where = components.length > 0 ? `along component ${formatList(components)}` : 'along a random direction';
-  const finding = makeFinding('non-smooth-probe', 'objective', `the objective looks non-smooth at probe ${outcome.context.probeIndex} ${where}: forward and backward differences disagree and do not converge as the step shrinks, so the gradient cannot be checked there`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
+  const finding = makeFinding('non-smooth-probe', 'objective', `the objective looks non-smooth at probe ${outcome.context.probeIndex + 1} ${where}: forward and backward differences disagree and do not converge as the step shrinks, so the gradient cannot be checked there`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
   finding.severity = 'info';
   if (components.length > 0) finding.components = components;
   return finding;

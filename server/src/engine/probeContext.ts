@@ -49,11 +49,16 @@ export function judge(analytic: number, numerical: DerivativeEstimate, roundoffS
   const difference = Math.abs(analytic - numerical.value);
   const size = Math.max(Math.abs(analytic), Math.abs(numerical.value));
   const relError = size > 0 ? difference / size : 0;
-  const floor = roundoffUlps * unit * Math.max(roundoffScale, size);
+  const floor = roundoffFloor(roundoffScale, size, unit);
   const usable = numerical.resolved && Number.isFinite(numerical.value) && Number.isFinite(numerical.errorBound);
   const mismatch = usable && !numerical.kink && difference > numerical.errorBound + floor;
   const decidable = mismatch || (usable && !numerical.kink && numerical.errorBound <= 0.1 * size);
   return { errorBound: numerical.errorBound, relError, mismatch, decidable };
+}
+
+/** Rounding the analytic value may carry: a few units of roundoff of its largest term sum. */
+export function roundoffFloor(roundoffScale: number, size: number, unit: number): number {
+  return roundoffUlps * unit * Math.max(roundoffScale, size);
 }
 
 /** Initial difference step relative to the coordinate scale, from the relative noise ε_r: ~ε_r^(1/5), the optimum for an O(h⁴) extrapolated difference. */

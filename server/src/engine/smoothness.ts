@@ -54,19 +54,37 @@ export function probeSmoothness(context: ProbeContext, random: Random, lanczosSt
   const products = (context.calls.counts.gradient - before) / 2;
   if (lanczos === null) return null;
   const secantMax = secantSlopes(context, random);
-  return { lambdaMax: lanczos.lambdaMax, lambdaMin: lanczos.lambdaMin, ritzValues: lanczos.ritzValues, secantMax, hessianVectorProducts: Math.ceil(products) };
+  const estimate: ProbeSmoothness = { lambdaMax: lanczos.lambdaMax, lambdaMin: lanczos.lambdaMin, ritzValues: lanczos.ritzValues, secantMax, hessianVectorProducts: Math.ceil(products) };
+  // Unknown (a product failed at the first step) stays absent rather than Infinity, which JSON cannot carry.
+  if (Number.isFinite(lanczos.lambdaMaxResidual)) estimate.lambdaMaxResidual = lanczos.lambdaMaxResidual;
+  if (Number.isFinite(lanczos.lambdaMinResidual)) estimate.lambdaMinResidual = lanczos.lambdaMinResidual;
+  return estimate;
 }
 
 /** L̂ = largest of |λmax|, |λmin| and the secant slopes over all probes; μ̂ = smallest λmin. */
 export function combineSmoothness(perProbe: ProbeSmoothness[]): SmoothnessEstimate | null {
   if (perProbe.length === 0) return null;
   let lipschitz = 0;
+  let lipschitzResidual: number | undefined;
   let mu = Number.POSITIVE_INFINITY;
+  let muResidual: number | undefined;
   for (const s of perProbe) {
-    lipschitz = Math.max(lipschitz, Math.abs(s.lambdaMax), Math.abs(s.lambdaMin), s.secantMax);
-    mu = Math.min(mu, s.lambdaMin);
+    // Each candidate for L̂ carries the residual of its Ritz value; a secant slope has none.
+    for (const [value, residual] of [[Math.abs(s.lambdaMax), s.lambdaMaxResidual], [Math.abs(s.lambdaMin), s.lambdaMinResidual], [s.secantMax, undefined]] as const) {
+      if (value > lipschitz) {
+        lipschitz = value;
+        lipschitzResidual = residual;
+      }
+    }
+    if (s.lambdaMin < mu) {
+      mu = s.lambdaMin;
+      muResidual = s.lambdaMinResidual;
+    }
   }
   // No curvature at all (e.g. a linear f): no step size follows from it.
   if (!(lipschitz > 0) || !Number.isFinite(lipschitz)) return null;
-  return { lipschitz, mu, kappa: mu > 0 ? lipschitz / mu : null, safeStep: 1 / lipschitz, divergenceStep: 2 / lipschitz };
+  const estimate: SmoothnessEstimate = { lipschitz, mu, kappa: mu > 0 ? lipschitz / mu : null, safeStep: 1 / lipschitz, divergenceStep: 2 / lipschitz };
+  if (lipschitzResidual !== undefined) estimate.lipschitzResidual = lipschitzResidual;
+  if (muResidual !== undefined) estimate.muResidual = muResidual;
+  return estimate;
 }

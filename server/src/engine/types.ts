@@ -37,7 +37,7 @@ export const defaultCheckOptions: CheckOptions = {
   probeCount: 3,
   fullCheckMaxDimension: 64,
   directionCount: 6,
-  lanczosSteps: 30,
+  lanczosSteps: 40,
   descentSteps: 20,
 };
 
@@ -163,6 +163,9 @@ export interface ProbeReport {
     ritzValues: number[];
     secantMax: number;
     hessianVectorProducts: number;
+    /** Lanczos residual ‖Hy − θy‖ of the λmax and λmin Ritz pairs: an eigenvalue lies within it of each. */
+    lambdaMaxResidual?: number;
+    lambdaMinResidual?: number;
   } | null;
   descent: DescentRun[];
 }
@@ -180,6 +183,10 @@ export interface SmoothnessEstimate {
   lipschitz: number;
   /** μ̂: smallest curvature seen; negative means non-convex near the probes. */
   mu: number;
+  /** Lanczos residual of the Ritz value that gave L̂; absent when a secant slope gave it. */
+  lipschitzResidual?: number;
+  /** Lanczos residual of the Ritz value that gave μ̂. */
+  muResidual?: number;
   /** κ̂ = L̂ / μ̂ when μ̂ > 0, else null. */
   kappa: number | null;
   /** 1/L̂. */

@@ -124,8 +124,10 @@ function readNumbers(result: unknown, site: CallSite): Float64Array {
   }
 }
 
+/** "probe 2" or "a secant point near probe 2": probes are numbered from 1, as the user counts @probe tags. */
 export function describeSite(site: CallSite): string {
-  return `${site.point} of probe ${site.probeIndex}`;
+  const probe = `probe ${site.probeIndex + 1}`;
+  return site.point === 'the probe' ? probe : `${site.point} near ${probe}`;
 }
 
 export function makeFinding(code: FindingCode, subject: FindingSubject, message: string, site?: CallSite): Finding {
