@@ -78,5 +78,5 @@ test('text format: a table with one row per pair and the local-estimate caution'
   assert.match(run.stdout, /line\s+objective → gradient\s+verdict/);
   for (const want of expected) assert.ok(run.stdout.includes(want.objective), `row for ${want.objective}`);
   assert.match(run.stdout, /local estimates near the probe points/);
-  assert.match(run.stdout, /\d+ pairs in \d+ files: \d+ ok, \d+ wrong/);
+  assert.match(run.stdout, /\d+ pairs in \d+ files: \d+ matching, \d+ wrong, \d+ undecided, \d+ not checked/);
 });

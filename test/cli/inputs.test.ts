@@ -61,5 +61,5 @@ test('a folder: syntax error, hang and binary file each get their own finding; t
 test('a clean file exits 0; text output names the pair', async () => {
   const run = await runCli([path.join(dir, 'good.ts')]);
   assert.equal(run.code, 0, run.stderr);
-  assert.match(run.stdout, /spread → spreadGrad\s+ok/);
+  assert.match(run.stdout, /spread → spreadGrad\s+gradient matches/);
 });

@@ -1,10 +1,10 @@
 // The human-readable table of `slopecheck` (the default format).
 import { findingLine } from '../check/checkDocument';
-import type { PairStatus, Severity } from '../engine/types';
+import type { Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
+import { verdictWords } from '../shared/verdictWords';
 
-const verdictWord: Record<PairStatus, string> = { pass: 'ok', fail: 'WRONG', inconclusive: 'undecided', error: 'ERROR' };
 const severityWord: Record<Severity, string> = { error: 'error', warning: 'warn', info: 'note' };
 
 const columns = ['line', 'objective → gradient', 'verdict', 'max rel err', 'L̂ (local)', 'step 1/L̂', 'learning rate'];
@@ -28,7 +28,7 @@ export function formatText(outcomes: FileOutcome[]): string {
     const rows = check.pairs.map(({ pair, report }) => [
       String(pair.objective.nameSpan.line),
       pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (value and gradient)`,
-      verdictWord[report.status],
+      verdictWords[report.status],
       sci(report.maxRelError),
       sci(report.smoothness?.lipschitz ?? null),
       sci(report.smoothness?.safeStep ?? null),
@@ -48,7 +48,7 @@ export function formatText(outcomes: FileOutcome[]): string {
   const s = summarise(outcomes);
   out.push(
     `${s.pairs} pair${s.pairs === 1 ? '' : 's'} in ${s.files} file${s.files === 1 ? '' : 's'}: ` +
-      `${s.byStatus.pass} ok, ${s.byStatus.fail} wrong, ${s.byStatus.inconclusive} undecided, ${s.byStatus.error} could not run` +
+      `${s.byStatus.pass} matching, ${s.byStatus.fail} wrong, ${s.byStatus.inconclusive} undecided, ${s.byStatus.error} not checked` +
       (s.unreadable ? `, ${s.unreadable} unreadable` : ''),
     'L̂ and the steps 1/L̂ are local estimates near the probe points, not guarantees for the whole domain.',
   );
