@@ -147,12 +147,15 @@ for (const [name, attempt] of Object.entries(tries)) {
     const written: string[] = [];
     const originalOut = process.stdout.write;
     const originalErr = process.stderr.write;
-    const capture = (chunk: unknown) => {
-      written.push(String(chunk));
-      return true;
-    };
-    process.stdout.write = capture as typeof process.stdout.write;
-    process.stderr.write = capture as typeof process.stderr.write;
+    // Recorded and passed on: the test runner reports earlier tests through this process's stdout
+    // meanwhile, and a swallowed report is a test that silently goes missing from the count.
+    const capture = (original: typeof process.stdout.write, stream: NodeJS.WriteStream) =>
+      ((chunk: unknown, ...rest: unknown[]) => {
+        written.push(String(chunk));
+        return (original as (...args: unknown[]) => boolean).call(stream, chunk, ...rest);
+      }) as typeof process.stdout.write;
+    process.stdout.write = capture(originalOut, process.stdout);
+    process.stderr.write = capture(originalErr, process.stderr);
     let result;
     try {
       result = await runModule("for (let i = 0; i < 100000; i++) console.log('spam line', i);\nconsole.error('never seen');\n");

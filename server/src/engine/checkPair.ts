@@ -116,7 +116,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
       severity: 'info',
       subject: 'objective',
       probeIndex: undecided[0].context.probeIndex,
-      message: `the objective is too noisy to check the gradient at ${undecided.length === 1 ? 'probe' : 'probes'} ${undecided.map((o) => o.context.probeIndex).join(', ')} (relative noise ≈ ${formatBound(undecided[0].report.noise)}): the numerical error bounds are as large as the gradient`,
+      message: `the objective is too noisy to check the gradient at ${undecided.length === 1 ? 'probe' : 'probes'} ${undecided.map((o) => o.context.probeIndex + 1).join(', ')} (relative noise ≈ ${formatBound(undecided[0].report.noise)}): the numerical error bounds are as large as the gradient`,
     });
   }
   if (failing) report.status = 'fail';

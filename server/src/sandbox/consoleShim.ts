@@ -2,8 +2,11 @@
 // printing them, with a cap so a chatty loop cannot flood the host.
 // Runs inside the vm context; no Node APIs.
 
-// Captured before user code runs, so a module that replaces it cannot break the hand-over.
-const stringify = JSON.stringify;
+import { plainJson } from './plainJson';
+
+// plainJson captures its built-ins before user code runs and ignores an inherited toJSON,
+// so a module that pollutes its realm cannot break the hand-over.
+const stringify = plainJson;
 
 const maxLines = 200;
 const maxBytes = 20_000;

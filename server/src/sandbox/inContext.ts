@@ -5,13 +5,16 @@ import { checkPair } from '../engine/checkPair';
 import type { PairFunctions } from '../engine/checkPair';
 import type { CheckPlan, Finding, FindingSubject, PairReport } from '../engine/types';
 import { installConsole, takeConsole } from './consoleShim';
+import { plainJson } from './plainJson';
 import { errorReport, internalFinding } from './reports';
 
 export { installConsole, takeConsole };
 
 // Captured before user code runs, so a module that replaces them cannot garble the report.
-const stringify = JSON.stringify;
+// Reports are written by plainJson, which also ignores an inherited toJSON.
+const stringify = plainJson;
 const parse = JSON.parse;
+const hasOwn = Object.hasOwn;
 const now = Date.now;
 
 interface LoadedModule {
@@ -62,7 +65,7 @@ export function run(moduleExports: unknown, planJson: string, check: typeof chec
 function runPlan(moduleExports: unknown, plan: CheckPlan, check: typeof checkPair): PairReport {
   const started = now();
   const functions = resolveFunctions(moduleExports, plan);
-  if ('findings' in functions) return errorReport(functions.findings, now() - started);
+  if (isFailure(functions)) return errorReport(functions.findings, now() - started);
   const probeFindings: Finding[] = [];
   const probes = plan.probes.map((point) => [...point]);
   for (const name of plan.probeExports) {
@@ -76,6 +79,11 @@ function runPlan(moduleExports: unknown, plan: CheckPlan, check: typeof checkPai
 }
 
 type Resolved = PairFunctions | { findings: Finding[] };
+
+/** An own property only: user code may have put `findings` on Object.prototype. */
+function isFailure(resolved: Resolved): resolved is { findings: Finding[] } {
+  return hasOwn(resolved, 'findings');
+}
 
 function resolveFunctions(moduleExports: unknown, plan: CheckPlan): Resolved {
   const makeVector: PairFunctions['makeVector'] =

@@ -1,0 +1,110 @@
+// A sandbox process killed from outside (the OOM killer, a user's `kill -9`) is replaced:
+// a request it was running resolves with 'sandbox-crash' instead of hanging, and the next
+// request runs on a new process. These run real sandbox processes (dist/sandbox.js).
+import assert from 'node:assert/strict';
+import { readFileSync } from 'node:fs';
+import { after, describe, test } from 'node:test';
+import type { PairReport } from '../../server/src/engine/types';
+import { SandboxPool } from '../../server/src/sandbox/pool';
+import { sandboxScript } from '../support/paths';
+import { roundTripPlan, tempProject, waitFor } from './support';
+
+const project = tempProject();
+after(() => project.remove());
+
+async function runModule(pool: SandboxPool, text: string) {
+  const bundle = await project.bundle(text, 'main.js');
+  assert.deepEqual(bundle.errors, []);
+  return pool.run(bundle, roundTripPlan);
+}
+
+const codes = (report: PairReport) => report.findings.map((finding) => finding.code);
+
+/** A full round trip: the module loaded and the runner answered that the plan's export is missing. */
+async function assertAnswers(pool: SandboxPool): Promise<void> {
+  const { report } = await runModule(pool, 'exports.value = 1;\n');
+  assert.deepEqual(codes(report), ['missing-export']);
+}
+
+/** True while a process with this id exists (signal 0 only checks). */
+function isAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** CPU time the process has used, in clock ticks (Linux /proc/<pid>/stat, fields 14 and 15: utime, stime). */
+function cpuTicks(pid: number): number {
+  const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+  // The command name (field 2) may hold spaces; the fields after its closing parenthesis do not.
+  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+  return Number(fields[11]) + Number(fields[12]);
+}
+
+describe('a sandbox process killed from outside', () => {
+  test('while idle: it leaves the pool, and the next request runs on a new process', async () => {
+    const pool = new SandboxPool({ sandboxScript, timeoutMs: 5000 });
+    try {
+      await assertAnswers(pool);
+      const [pid] = pool.processIds();
+      assert.ok(pid !== undefined, 'a warm process after the first request');
+      process.kill(pid, 'SIGKILL');
+      await waitFor(() => !pool.processIds().includes(pid));
+      assert.equal(isAlive(pid), false);
+      await assertAnswers(pool);
+      const [replacement] = pool.processIds();
+      assert.ok(replacement !== undefined && replacement !== pid, `a new process: ${replacement} after ${pid}`);
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  test('while running a request: the request resolves with sandbox-crash long before the time limit, and the next one succeeds', async () => {
+    // A time limit far above the wait below: the answer must come from the kill, not from the deadline.
+    const timeoutMs = 60_000;
+    const pool = new SandboxPool({ sandboxScript, timeoutMs });
+    try {
+      await assertAnswers(pool);
+      const [pid] = pool.processIds();
+      const bundle = await project.bundle('for (;;) {}\n', 'main.js');
+      const idleTicks = cpuTicks(pid);
+      const started = Date.now();
+      const stuck = pool.run(bundle, roundTripPlan);
+      // Killed only once the process is surely inside the endless loop: 50 ticks (0.5 s at the
+      // usual 100 Hz) of CPU more than when idle; loading a module takes a small part of that.
+      await waitFor(() => cpuTicks(pid) - idleTicks >= 50, 20_000);
+      process.kill(pid, 'SIGKILL');
+      const { report } = await stuck;
+      assert.ok(Date.now() - started < 10_000, `answered after ${Date.now() - started} ms`);
+      assert.equal(report.status, 'error');
+      assert.deepEqual(codes(report), ['sandbox-crash']);
+      assert.equal(report.findings[0].severity, 'error');
+      assert.match(report.findings[0].message, /SIGKILL/);
+      await assertAnswers(pool);
+      const [replacement] = pool.processIds();
+      assert.ok(replacement !== undefined && replacement !== pid, `a new process: ${replacement} after ${pid}`);
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  // Known gap, reported to the lead: a request sent after the kill but before the pool has seen
+  // the exit goes to the dead process and comes back as 'sandbox-crash', blaming code that did
+  // nothing wrong. Marked todo so it is listed (not counted as passed) until the pool retries it.
+  test('right after the kill, before the pool has seen the exit: the next request still succeeds', { todo: 'pool sends to a process that is already dead' }, async () => {
+    const pool = new SandboxPool({ sandboxScript, timeoutMs: 5000 });
+    try {
+      await assertAnswers(pool);
+      const bundle = await project.bundle('exports.value = 1;\n', 'main.js');
+      const [pid] = pool.processIds();
+      process.kill(pid, 'SIGKILL');
+      const { report } = await pool.run(bundle, roundTripPlan);
+      assert.deepEqual(codes(report), ['missing-export']);
+    } finally {
+      pool.dispose();
+    }
+  });
+});
