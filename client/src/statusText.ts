@@ -2,6 +2,7 @@
 // and the active file's summary. Pure, so it is tested under node.
 import type { PairStatus } from '../../server/src/engine/types';
 import type { DocumentCheckSummary } from '../../server/src/shared/summary';
+import { verdictCountWords } from '../../server/src/shared/verdictWords';
 import { commandIds, manageTrustCommand } from './commandIds';
 
 export type ServerHealth = 'starting' | 'running' | 'stopped';
@@ -14,12 +15,8 @@ export interface StatusView {
   alarm: boolean;
 }
 
-const countWords: Array<[PairStatus, string]> = [
-  ['fail', 'wrong'],
-  ['error', 'errored'],
-  ['inconclusive', 'undecided'],
-  ['pass', 'ok'],
-];
+// Most urgent first.
+const countOrder: PairStatus[] = ['fail', 'error', 'inconclusive', 'pass'];
 
 const links =
   `[Check file again](command:${commandIds.checkAgain}) · ` +
@@ -43,7 +40,7 @@ export function statusView(health: ServerHealth, trusted: boolean, summary: Docu
   if (!summary || summary.state === 'idle') return { text: '$(pulse) Slopecheck', tooltip: `No check has run on this file yet.\n\n${links}`, alarm: false };
   if (summary.state === 'checking') return { text: '$(sync~spin) Slopecheck: checking…', tooltip: links, alarm: false };
 
-  const counts = countWords.filter(([status]) => (summary.byStatus[status] ?? 0) > 0).map(([status, word]) => `${summary.byStatus[status]} ${word}`);
+  const counts = countOrder.filter((status) => (summary.byStatus[status] ?? 0) > 0).map((status) => `${summary.byStatus[status]} ${verdictCountWords[status]}`);
   if (counts.length === 0) return { text: '$(dash) Slopecheck: no pairs', tooltip: `No objective/gradient pair found in this file.\n\n${links}`, alarm: false };
   const icon = summary.byStatus.fail > 0 || summary.byStatus.error > 0 ? '$(error)' : summary.byStatus.inconclusive > 0 ? '$(warning)' : '$(check)';
   const step = summary.smallestSafeStep === null ? '' : `\n\nSmallest safe step 1/L̂ in this file: ${Number(summary.smallestSafeStep.toPrecision(4))} (a local estimate).`;

@@ -15,10 +15,10 @@ const summary = (byStatus: Partial<DocumentCheckSummary['byStatus']>, state: Doc
 
 describe('status bar text', () => {
   test('counts in a fixed order with the icon of the worst verdict', () => {
-    assert.equal(statusView('running', true, summary({ pass: 5 })).text, '$(check) Slopecheck: 5 ok');
-    assert.equal(statusView('running', true, summary({ pass: 3, fail: 2 })).text, '$(error) Slopecheck: 2 wrong, 3 ok');
-    assert.equal(statusView('running', true, summary({ pass: 1, inconclusive: 1 })).text, '$(warning) Slopecheck: 1 undecided, 1 ok');
-    assert.equal(statusView('running', true, summary({ error: 1 })).text, '$(error) Slopecheck: 1 errored');
+    assert.equal(statusView('running', true, summary({ pass: 5 })).text, '$(check) Slopecheck: 5 matching');
+    assert.equal(statusView('running', true, summary({ pass: 3, fail: 2 })).text, '$(error) Slopecheck: 2 wrong, 3 matching');
+    assert.equal(statusView('running', true, summary({ pass: 1, inconclusive: 1 })).text, '$(warning) Slopecheck: 1 undecided, 1 matching');
+    assert.equal(statusView('running', true, summary({ error: 1 })).text, '$(error) Slopecheck: 1 not checked');
     assert.equal(statusView('running', true, summary({})).text, '$(dash) Slopecheck: no pairs');
     assert.match(statusView('running', true, summary({ pass: 1 })).tooltip, /Smallest safe step 1\/L̂ in this file: 0\.05/);
   });

@@ -45,10 +45,20 @@ export class Workbench {
     await this.expectVisible(this.page.locator('.statusbar-item', { hasText: `Ln ${line}, Col ${column}` }), `the cursor at "Ln ${line}, Col ${column}" in the status bar`);
   }
 
-  /** F1, the command's title, Enter. */
+  /**
+   * F1, the command's title, Enter. A webview that takes the focus back as it settles can close
+   * the palette right after it opened, so opening and typing are tried up to three times.
+   */
   async runCommand(title: string): Promise<void> {
-    const input = await this.openPalette();
-    await input.fill(`>${title}`);
+    for (let attempt = 1; ; attempt++) {
+      const input = await this.openPalette();
+      try {
+        await input.fill(`>${title}`, { timeout: 5000 });
+        break;
+      } catch (error) {
+        if (attempt === 3) throw error;
+      }
+    }
     await this.expectVisible(this.page.locator('.quick-input-widget .monaco-list-row.focused', { hasText: title }), `the command "${title}" first in the palette`);
     await this.page.keyboard.press('Enter');
   }

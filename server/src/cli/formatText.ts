@@ -3,7 +3,7 @@ import { findingLine } from '../check/checkDocument';
 import type { Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
-import { verdictWords } from '../shared/verdictWords';
+import { verdictCountWords, verdictWords } from '../shared/verdictWords';
 
 const severityWord: Record<Severity, string> = { error: 'error', warning: 'warn', info: 'note' };
 
@@ -48,7 +48,7 @@ export function formatText(outcomes: FileOutcome[]): string {
   const s = summarise(outcomes);
   out.push(
     `${s.pairs} pair${s.pairs === 1 ? '' : 's'} in ${s.files} file${s.files === 1 ? '' : 's'}: ` +
-      `${s.byStatus.pass} matching, ${s.byStatus.fail} wrong, ${s.byStatus.inconclusive} undecided, ${s.byStatus.error} not checked` +
+      (['pass', 'fail', 'inconclusive', 'error'] as const).map((status) => `${s.byStatus[status]} ${verdictCountWords[status]}`).join(', ') +
       (s.unreadable ? `, ${s.unreadable} unreadable` : ''),
     'L̂ and the steps 1/L̂ are local estimates near the probe points, not guarantees for the whole domain.',
   );

@@ -8,3 +8,11 @@ export const verdictWords: Record<PairStatus, string> = {
   inconclusive: 'undecided',
   error: 'not checked',
 };
+
+/** The same verdicts as counts: "3 matching, 2 wrong". */
+export const verdictCountWords: Record<PairStatus, string> = {
+  pass: 'matching',
+  fail: 'wrong',
+  inconclusive: 'undecided',
+  error: 'not checked',
+};
