@@ -120,6 +120,11 @@ export class DocumentChecks {
     return this.documents.get(uri)?.finished ?? Promise.resolve();
   }
 
+  /** Test hook: documents with state held. */
+  get openCount(): number {
+    return this.documents.size;
+  }
+
   dispose(): void {
     for (const state of this.documents.values()) this.cancel(state);
     this.documents.clear();

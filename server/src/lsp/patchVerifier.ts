@@ -25,4 +25,9 @@ export class PatchVerifier {
     });
     return verdict;
   }
+
+  /** Test hook: verdicts remembered. */
+  get size(): number {
+    return this.verdicts.size;
+  }
 }

@@ -19,7 +19,9 @@ export class CheckProgress {
   constructor(create: ProgressFactory, private readonly title: string) {
     create().then(
       (reporter) => {
-        if (this.ended) return;
+        // A check that ended first still closes its token: the library forgets a reporter
+        // only in done(), so skipping it would keep one per fast check for the server's life.
+        if (this.ended) return reporter.done();
         this.reporter = reporter;
         reporter.begin(this.title, this.latest.percentage, this.latest.message, false);
       },

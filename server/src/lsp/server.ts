@@ -7,7 +7,6 @@ import {
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { CachedRunner } from '../check/runCache';
 import { discoverPairs } from '../discovery/discover';
-import type { DiscoveredPair } from '../discovery/types';
 import { SandboxPool } from '../sandbox/pool';
 import { productVersion, sandboxScriptPath } from '../shared/productInfo';
 import {
@@ -17,6 +16,7 @@ import type { SlopecheckSettings } from '../shared/settings';
 import { codeActions } from './codeActions';
 import { pairLenses } from './codeLens';
 import { toDiagnostics, toRange } from './diagnostics';
+import { DiscoveryCache } from './discoveryCache';
 import { checkOptions, DocumentChecks } from './documentChecks';
 import { hoverMarkdown, nameAt } from './hover';
 import { PatchVerifier } from './patchVerifier';
@@ -102,11 +102,13 @@ export function startServer(connection: Connection): void {
   );
   documents.onDidChangeContent(({ document }) => checks.changed(document.uri, document.getText(), document.version));
   documents.onDidSave(({ document }) => afterReady(() => checks.saved(document.uri)));
-  documents.onDidClose(({ document }) => checks.closed(document.uri));
-
   // Features read the current text, so names and edits line up with what the user sees.
-  const discovered = discoveryCache();
-  const pairsOf = (document: TextDocument) => discovered(document.uri, document.version, () => discoverPairs(document.getText(), fileNameOf(document.uri)).pairs);
+  const discovered = new DiscoveryCache();
+  const pairsOf = (document: TextDocument) => discovered.pairs(document.uri, document.version, () => discoverPairs(document.getText(), fileNameOf(document.uri)).pairs);
+  documents.onDidClose(({ document }) => {
+    checks.closed(document.uri);
+    discovered.forget(document.uri);
+  });
 
   connection.onHover(({ textDocument, position }) => {
     const document = documents.get(textDocument.uri);
@@ -193,16 +195,4 @@ export function fileNameOf(uri: string): string {
   if (uri.startsWith('file:')) return fileURLToPath(uri);
   const name = uri.replace(/^[a-z]+:/i, '').replace(/[^\w.-]+/g, '_') || 'untitled';
   return path.join(process.cwd(), /\.[cm]?[jt]sx?$/.test(name) ? name : `${name}.ts`);
-}
-
-/** Discovery of the latest version of each document, recomputed only when the text changes. */
-function discoveryCache(): (uri: string, version: number, discover: () => DiscoveredPair[]) => DiscoveredPair[] {
-  const entries = new Map<string, { version: number; pairs: DiscoveredPair[] }>();
-  return (uri, version, discover) => {
-    const hit = entries.get(uri);
-    if (hit && hit.version === version) return hit.pairs;
-    const pairs = discover();
-    entries.set(uri, { version, pairs });
-    return pairs;
-  };
 }

@@ -18,4 +18,6 @@ export interface SandboxReply {
   /** Captured user console output, already truncated. */
   console: string[];
   consoleTruncated: boolean;
+  /** Resident set size of the sandbox process after the run, so the host can recycle a grown process. */
+  rssBytes?: number;
 }

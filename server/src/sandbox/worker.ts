@@ -62,7 +62,7 @@ function handle(request: SandboxRequest): SandboxReply {
     report = isTimeout(error) ? errorReport([timeoutFinding(request.timeoutMs)]) : internalError(describeHostError(error));
   }
   report.elapsedMs = report.elapsedMs || Date.now() - started;
-  return { id: request.id, report, ...collectConsole(context) };
+  return { id: request.id, report, ...collectConsole(context), rssBytes: process.memoryUsage.rss() };
 }
 
 /** Parses a runner answer; `allowNull` accepts the 'null' of a successful module load. */

@@ -10,15 +10,15 @@ export interface InitializationOptions {
 }
 
 export const methods = {
-  /** client → server (notification): workspace trust changed. */
+  /** client to server (notification): workspace trust changed. */
   setTrust: 'slopecheck/setTrust',
-  /** client → server (request): the full report of one pair, for the report view. */
+  /** client to server (request): the full report of one pair, for the report view. */
   pairReport: 'slopecheck/pairReport',
-  /** client → server (request): the pairs of a document, for a quick pick. */
+  /** client to server (request): the pairs of a document, for a quick pick. */
   listPairs: 'slopecheck/listPairs',
-  /** client → server (request): check a document again now, ignoring the cache. */
+  /** client to server (request): check a document again now, ignoring the cache. */
   checkAgain: 'slopecheck/checkAgain',
-  /** server → client (notification): a document's summary changed, for the status bar. */
+  /** server to client (notification): a document's summary changed, for the status bar. */
   documentSummary: 'slopecheck/documentSummary',
 } as const;
 
