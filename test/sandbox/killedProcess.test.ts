@@ -91,10 +91,9 @@ describe('a sandbox process killed from outside', () => {
     }
   });
 
-  // Known gap, reported to the lead: a request sent after the kill but before the pool has seen
-  // the exit goes to the dead process and comes back as 'sandbox-crash', blaming code that did
-  // nothing wrong. Marked todo so it is listed (not counted as passed) until the pool retries it.
-  test('right after the kill, before the pool has seen the exit: the next request still succeeds', { todo: 'pool sends to a process that is already dead' }, async () => {
+  // A request sent after the kill but before the pool has seen the exit reaches a dead process;
+  // it must not come back as 'sandbox-crash', blaming code that did nothing wrong.
+  test('right after the kill, before the pool has seen the exit: the next request still succeeds', async () => {
     const pool = new SandboxPool({ sandboxScript, timeoutMs: 5000 });
     try {
       await assertAnswers(pool);

@@ -5,7 +5,7 @@ import { fork, type ChildProcess } from 'node:child_process';
 import * as path from 'node:path';
 import type { CheckPlan, Finding, PairReport } from '../engine/types';
 import { isRunnable, unrunnableBundleFindings, type Bundle } from './bundle';
-import type { SandboxReply, SandboxRequest } from './protocol';
+import type { SandboxReceipt, SandboxReply, SandboxRequest } from './protocol';
 import { cancelledFinding, errorReport, timeoutFinding } from './reports';
 import { locateInUserSource } from './sourceMap';
 
@@ -49,6 +49,10 @@ interface Job {
   signal?: AbortSignal;
   onAbort?: () => void;
   settled: boolean;
+  /** The sandbox confirmed it has the request (see SandboxReceipt). */
+  received: boolean;
+  /** Sent again once already, after its first process turned out to be dead. */
+  resent: boolean;
   resolve(result: SandboxResult): void;
 }
 
@@ -90,7 +94,7 @@ export class SandboxPool {
     if (!isRunnable(bundle)) return Promise.resolve(resultOf(errorReport(unrunnableBundleFindings(bundle))));
     if (this.disposed || signal?.aborted) return Promise.resolve(resultOf(errorReport([cancelledFinding()])));
     return new Promise((resolve) => {
-      const job: Job = { id: this.nextId++, bundle, plan, signal, settled: false, resolve };
+      const job: Job = { id: this.nextId++, bundle, plan, signal, settled: false, received: false, resent: false, resolve };
       if (signal) {
         job.onAbort = () => this.cancel(job);
         signal.addEventListener('abort', job.onAbort, { once: true });
@@ -143,7 +147,8 @@ export class SandboxPool {
     child.on('close', (code: number | null, signal: NodeJS.Signals | null) => this.onExit(slot, code, signal));
     child.on('error', () => {
       const job = this.retire(slot);
-      if (job) this.settle(job, resultOf(errorReport([this.crashFinding(null, null, slot.stderrTail)])));
+      if (job) this.lost(job, this.crashFinding(null, null, slot.stderrTail));
+      this.dispatch();
     });
     this.slots.push(slot);
     return slot;
@@ -175,14 +180,19 @@ export class SandboxPool {
     slot.child.send(request, (error) => {
       if (!error || slot.job !== job) return;
       this.retire(slot);
-      this.settle(job, resultOf(errorReport([this.crashFinding(null, null, slot.stderrTail)])));
+      this.lost(job, this.crashFinding(null, null, slot.stderrTail));
       this.dispatch();
     });
   }
 
   private onReply(slot: Slot, message: unknown): void {
     const job = slot.job;
-    if (!job || !isReplyTo(job.id, message)) return;
+    if (!job) return;
+    if (isReceiptOf(job.id, message)) {
+      job.received = true;
+      return;
+    }
+    if (!isReplyTo(job.id, message)) return;
     this.release(slot);
     slot.runs++;
     // An idle process is replaced between runs, never during one; the next run starts a fresh one.
@@ -194,8 +204,18 @@ export class SandboxPool {
 
   private onExit(slot: Slot, code: number | null, signal: NodeJS.Signals | null): void {
     const job = this.retire(slot);
-    if (job) this.settle(job, resultOf(errorReport([this.crashFinding(code, signal, slot.stderrTail)])));
+    if (job) this.lost(job, this.crashFinding(code, signal, slot.stderrTail));
     this.dispatch();
+  }
+
+  /** A job whose process died: sent again once if no user code can have run, else a crash. */
+  private lost(job: Job, crash: Finding): void {
+    if (!job.received && !job.resent) {
+      job.resent = true;
+      this.queue.unshift(job);
+    } else {
+      this.settle(job, resultOf(errorReport([crash])));
+    }
   }
 
   private cancel(job: Job): void {
@@ -254,6 +274,11 @@ export class SandboxPool {
 
 function resultOf(report: PairReport): SandboxResult {
   return { report, console: [], consoleTruncated: false };
+}
+
+function isReceiptOf(id: number, message: unknown): boolean {
+  const receipt = message as Partial<SandboxReceipt> | null;
+  return typeof receipt === 'object' && receipt !== null && receipt.id === id && receipt.received === true;
 }
 
 function isReplyTo(id: number, message: unknown): message is SandboxReply {

@@ -12,6 +12,16 @@ export interface SandboxRequest {
 }
 
 /** Sandbox → host: the one result of a request. */
+/**
+ * Sandbox → host, first thing on receiving a request: the request reached a live process.
+ * A process that dies before this was already dead when the request was sent (killed from
+ * outside while idle), so the host may send the request again without running user code twice.
+ */
+export interface SandboxReceipt {
+  id: number;
+  received: true;
+}
+
 export interface SandboxReply {
   id: number;
   report: PairReport;

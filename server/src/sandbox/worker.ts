@@ -6,7 +6,7 @@ import * as vm from 'node:vm';
 import { types } from 'node:util';
 import runnerSource from 'slopecheck:in-context-runner';
 import type { PairReport } from '../engine/types';
-import type { SandboxReply, SandboxRequest } from './protocol';
+import type { SandboxReceipt, SandboxReply, SandboxRequest } from './protocol';
 import { errorReport, internalFinding, timeoutFinding } from './reports';
 import { bundleScriptName } from './sourceMap';
 
@@ -143,5 +143,7 @@ process.on('message', (message: unknown) => {
     process.stderr.write('slopecheck sandbox: ignored a malformed request\n');
     return;
   }
+  const receipt: SandboxReceipt = { id: message.id, received: true };
+  process.send?.(receipt);
   process.send?.(handle(message));
 });
