@@ -1,6 +1,6 @@
 // npm run bench: accuracy, smoothness, scale and editor latency, then the report files.
 // Usage: node bench/run.mjs [accuracy] [smoothness] [scale] [latency]   (default: all)
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { repoRoot } from '../test/support/paths';
@@ -9,6 +9,17 @@ import { runLatency } from './latency';
 import { latestJson, markdown, scaleSvg, type BenchResults } from './report';
 import { runScale } from './scale';
 import { runSmoothness } from './smoothness';
+
+const readmePath = path.join(repoRoot, 'README.md');
+
+/** The README's "Measured" figures sit between these markers; only a full run replaces them. */
+function withMeasuredTables(readme: string, tables: string): string {
+  const [begin, end] = ['<!-- bench:begin -->', '<!-- bench:end -->'];
+  const from = readme.indexOf(begin);
+  const to = readme.indexOf(end);
+  if (from < 0 || to < from) throw new Error(`README.md has no ${begin} … ${end} block for the figures`);
+  return readme.slice(0, from + begin.length) + '\n' + tables + readme.slice(to);
+}
 
 async function main(): Promise<void> {
   const asked = process.argv.slice(2);
@@ -46,15 +57,19 @@ async function main(): Promise<void> {
   }
   const report = markdown(results);
   console.log(`\n${report}`);
+  // Only a full run replaces the published figures: other tools read every section of latest.json.
+  if (asked.length > 0) {
+    console.log(`bench finished in ${((Date.now() - started) / 1000).toFixed(0)} s; a partial run writes no files`);
+    return;
+  }
   const resultsDir = path.join(repoRoot, 'bench', 'results');
   mkdirSync(resultsDir, { recursive: true });
   writeFileSync(path.join(resultsDir, 'latest.json'), JSON.stringify(latestJson(results), null, 2) + '\n');
   writeFileSync(path.join(resultsDir, 'latest.md'), report);
-  if (results.scale) {
-    mkdirSync(path.join(repoRoot, 'docs'), { recursive: true });
-    writeFileSync(path.join(repoRoot, 'docs', 'scale.svg'), scaleSvg(results.scale));
-  }
-  console.log(`bench finished in ${((Date.now() - started) / 1000).toFixed(0)} s; wrote bench/results/latest.json, bench/results/latest.md${results.scale ? ', docs/scale.svg' : ''}`);
+  writeFileSync(readmePath, withMeasuredTables(readFileSync(readmePath, 'utf8'), report));
+  mkdirSync(path.join(repoRoot, 'docs'), { recursive: true });
+  writeFileSync(path.join(repoRoot, 'docs', 'scale.svg'), scaleSvg(results.scale!));
+  console.log(`bench finished in ${((Date.now() - started) / 1000).toFixed(0)} s; wrote bench/results/latest.json, bench/results/latest.md, docs/scale.svg and the figures in README.md`);
 }
 
 main().catch((error) => {

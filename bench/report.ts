@@ -41,10 +41,54 @@ function accuracyTable(s: CheckerTally, b: CheckerTally): string {
   return table(['', 'Slopecheck', 'forward differences, tol 1e-4'], rows);
 }
 
+/** Each target of the product against what this run measured; a section not run is left out. */
+export function targetsTable(results: BenchResults): string {
+  const rows: Array<[string, string, boolean]> = [];
+  const a = results.accuracy;
+  if (a) {
+    const s = a.slopecheck;
+    const missedOutsideEstimate = a.details.slopecheckMissed.filter((c) => !(c.why ?? '').startsWith('within the error estimate'));
+    rows.push(['zero false alarms on correct cases', `${s.falseAlarms} of ${s.correctCases}`, s.falseAlarms === 0]);
+    rows.push([
+      'every bug of relative size ≥ 1e-6 caught where the error estimate allows it',
+      `${s.bugsCaught} of ${s.bugCases} caught; ${a.details.slopecheckMissed.length} missed, ${missedOutsideEstimate.length} of them outside the error estimate`,
+      missedOutsideEstimate.length === 0,
+    ]);
+    rows.push(['inconclusive on smooth correct cases under 1 %', pct(s.inconclusiveOnCorrect, s.correctCases), s.inconclusiveOnCorrect < 0.01 * s.correctCases]);
+  }
+  const sm = results.smoothness;
+  if (sm) {
+    rows.push(['L̂ relative error ≤ 1e-3 on quadratics up to n = 1000, within 40 products', `${fmt(sm.quadraticMaxRelErrL)}, at most ${sm.maxHessianVectorProducts} products`, sm.quadraticMaxRelErrL <= 1e-3 && sm.maxHessianVectorProducts <= 40]);
+    rows.push(['μ̂ relative error ≤ 1e-3 on quadratics up to n = 1000', fmt(sm.quadraticMaxRelErrMu), sm.quadraticMaxRelErrMu <= 1e-3]);
+    const testSetMu = Math.max(...sm.testSet.map((r) => r.relErrMu));
+    rows.push(['L̂ and μ̂ relative error ≤ 1e-2 on the test-set functions', `L̂ ${fmt(sm.testSetMaxRelErrL)}, μ̂ ${fmt(testSetMu)}`, sm.testSetMaxRelErrL <= 1e-2 && testSetMu <= 1e-2]);
+    rows.push(['learning-rate verdicts at 0.99 and 1.01 × 2/λmax agree with a real run', `${sm.ratesAgree} of ${sm.rates.length}`, sm.ratesAgree === sm.rates.length]);
+  }
+  if (results.scale) {
+    // n = 10 is below the directional threshold: every component is differenced there.
+    const directional = results.scale.filter((r) => r.n > 64);
+    const counts = directional.map((r) => r.evaluations);
+    const spread = Math.max(...counts) / Math.min(...counts);
+    rows.push(['evaluations flat in n (directional check, n ≥ 100)', `${Math.min(...counts)} to ${Math.max(...counts)} (max/min ${spread.toFixed(2)})`, spread <= 1.1]);
+    const large = results.scale.filter((r) => r.n >= 1e4);
+    rows.push(['overhead ratio ≤ 1.5 at n ≥ 1e4', large.map((r) => `${fmt(r.overheadRatio, 3)} at n = ${r.n}`).join(', '), large.every((r) => r.overheadRatio <= 1.5)]);
+  }
+  const l = results.latency;
+  if (l && l.medianMs !== null) {
+    rows.push(['save → diagnostics: median ≤ 150 ms', `${fmt(l.medianMs, 3)} ms`, l.medianMs <= 150]);
+    rows.push(['save → diagnostics: 95th percentile ≤ 400 ms', `${fmt(l.p95Ms!, 3)} ms`, l.p95Ms! <= 400]);
+    rows.push(['server + sandbox RSS after 1000 checks ≤ 200 MB', `${fmt(l.rssMb!, 3)} MB (server ${fmt(l.serverRssMb ?? NaN, 3)}, sandbox ${fmt(l.sandboxRssMb ?? NaN, 3)})`, l.rssMb! <= 200]);
+    // "No growth": within 2 % of the total, the noise of RSS readings between samples.
+    rows.push(['no memory growth over the last 500 checks', `${fmt(l.growthOverLast500Mb ?? NaN, 3)} MB`, (l.growthOverLast500Mb ?? Infinity) <= 0.02 * l.rssMb!]);
+  }
+  return table(['target', 'measured', 'met'], rows.map(([target, measured, met]) => [target, measured, met ? 'yes' : '**no**']));
+}
+
 export function markdown(results: BenchResults): string {
   const parts: string[] = [];
   const m = results.machine;
   parts.push(`Machine: ${m.cpus} × ${m.cpuModel}, Node ${m.node}, ${m.date}.`);
+  parts.push('### Targets', targetsTable(results));
   if (results.accuracy) {
     const a = results.accuracy;
     parts.push('### Accuracy', accuracyTable(a.slopecheck, a.baseline));

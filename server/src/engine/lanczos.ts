@@ -1,7 +1,7 @@
 // Extreme eigenvalues of a symmetric operator known only through products H·v:
 // Lanczos with full reorthogonalisation (Golub & Van Loan, Matrix Computations,
 // 4th ed., 2013, §10.1 and §10.3.1).
-import { tridiagonalEigenvalues, tridiagonalEigenvector } from './tridiagonal';
+import { tridiagonalEigenvalue, tridiagonalEigenvalues, tridiagonalEigenvector } from './tridiagonal';
 import { dot, norm2 } from './vectors';
 
 export interface LanczosResult {
@@ -33,7 +33,9 @@ export function lanczosExtremes(multiply: (v: Float64Array) => Float64Array | nu
   const basis: Float64Array[] = [];
   const diagonal: number[] = [];
   const offDiagonal: number[] = [];
-  let ritzValues: number[] = [];
+  // Only the extreme Ritz values are needed while iterating; all of them once at the end.
+  let lowest = Number.NaN;
+  let highest = Number.NaN;
   let residuals = { lambdaMax: Number.POSITIVE_INFINITY, lambdaMin: Number.POSITIVE_INFINITY };
   let products = 0;
   const startNorm = norm2(start);
@@ -60,18 +62,21 @@ export function lanczosExtremes(multiply: (v: Float64Array) => Float64Array | nu
       }
       if (norm2(w) > 0.7 * before) break;
     }
-    ritzValues = tridiagonalEigenvalues(diagonal, offDiagonal);
-    const scale = Math.max(Math.abs(ritzValues[0]), Math.abs(ritzValues[ritzValues.length - 1]), Number.MIN_VALUE);
+    lowest = tridiagonalEigenvalue(diagonal, offDiagonal, 0);
+    highest = tridiagonalEigenvalue(diagonal, offDiagonal, diagonal.length - 1);
+    const scale = Math.max(Math.abs(lowest), Math.abs(highest), Number.MIN_VALUE);
     const beta = norm2(w);
     if (!Number.isFinite(beta)) break;
-    residuals = { lambdaMax: ritzResidual(diagonal, offDiagonal, ritzValues[ritzValues.length - 1], beta), lambdaMin: ritzResidual(diagonal, offDiagonal, ritzValues[0], beta) };
+    residuals = { lambdaMax: ritzResidual(diagonal, offDiagonal, highest, beta), lambdaMin: ritzResidual(diagonal, offDiagonal, lowest, beta) };
     // Both ends converged, or an invariant subspace (the Ritz values are then exact eigenvalues).
     if (Math.max(residuals.lambdaMax, residuals.lambdaMin) <= convergedResidual * scale || beta <= 1e-12 * scale) break;
     offDiagonal.push(beta);
     q = w.map((value) => value / beta);
   }
   if (diagonal.length === 0) return null;
-  return { lambdaMax: ritzValues[ritzValues.length - 1], lambdaMin: ritzValues[0], ritzValues, lambdaMaxResidual: residuals.lambdaMax, lambdaMinResidual: residuals.lambdaMin, products };
+  // T_k couples its k rows through the first k − 1 off-diagonal entries.
+  const ritzValues = tridiagonalEigenvalues(diagonal, offDiagonal.slice(0, diagonal.length - 1));
+  return { lambdaMax: highest, lambdaMin: lowest, ritzValues, lambdaMaxResidual: residuals.lambdaMax, lambdaMinResidual: residuals.lambdaMin, products };
 }
 
 /**

@@ -15,11 +15,9 @@ function countBelow(diagonal: ArrayLike<number>, offDiagonal: ArrayLike<number>,
   return count;
 }
 
-/** All eigenvalues, ascending. `offDiagonal[i]` couples rows i and i+1. */
-export function tridiagonalEigenvalues(diagonal: ArrayLike<number>, offDiagonal: ArrayLike<number>): number[] {
+/** Gershgorin discs bound the spectrum: [low, high] holds every eigenvalue. */
+function spectrumBounds(diagonal: ArrayLike<number>, offDiagonal: ArrayLike<number>): [number, number] {
   const n = diagonal.length;
-  if (n === 0) return [];
-  // Gershgorin discs bound the spectrum.
   let low = Number.POSITIVE_INFINITY;
   let high = Number.NEGATIVE_INFINITY;
   for (let i = 0; i < n; i++) {
@@ -27,19 +25,25 @@ export function tridiagonalEigenvalues(diagonal: ArrayLike<number>, offDiagonal:
     low = Math.min(low, diagonal[i] - radius);
     high = Math.max(high, diagonal[i] + radius);
   }
-  const width = Math.max(Math.abs(low), Math.abs(high), Number.MIN_VALUE);
-  const values: number[] = [];
-  for (let k = 0; k < n; k++) {
-    let a = low;
-    let b = high;
-    for (let iteration = 0; iteration < 200 && b - a > 4 * Number.EPSILON * width; iteration++) {
-      const middle = (a + b) / 2;
-      if (countBelow(diagonal, offDiagonal, middle) > k) b = middle;
-      else a = middle;
-    }
-    values.push((a + b) / 2);
+  return [low, high];
+}
+
+/** The k-th smallest eigenvalue (k from 0), by bisection on the Sturm count. */
+export function tridiagonalEigenvalue(diagonal: ArrayLike<number>, offDiagonal: ArrayLike<number>, k: number, bounds = spectrumBounds(diagonal, offDiagonal)): number {
+  let [a, b] = bounds;
+  const width = Math.max(Math.abs(a), Math.abs(b), Number.MIN_VALUE);
+  for (let iteration = 0; iteration < 200 && b - a > 4 * Number.EPSILON * width; iteration++) {
+    const middle = (a + b) / 2;
+    if (countBelow(diagonal, offDiagonal, middle) > k) b = middle;
+    else a = middle;
   }
-  return values;
+  return (a + b) / 2;
+}
+
+/** All eigenvalues, ascending. `offDiagonal[i]` couples rows i and i+1. */
+export function tridiagonalEigenvalues(diagonal: ArrayLike<number>, offDiagonal: ArrayLike<number>): number[] {
+  const bounds = spectrumBounds(diagonal, offDiagonal);
+  return Array.from({ length: diagonal.length }, (_, k) => tridiagonalEigenvalue(diagonal, offDiagonal, k, bounds));
 }
 
 /**
