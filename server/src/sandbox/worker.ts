@@ -13,7 +13,15 @@ import { bundleScriptName } from './sourceMap';
 /** Time allowed to collect the console after the budget ran out; it is our code, but in a realm user code may have changed. */
 const consoleGraceMs = 200;
 
-const runnerScript = new vm.Script(runnerSource, { filename: 'slopecheck-runner.js' });
+// A free name like Math resolves through the context's global interceptor on every use, which made
+// hot loops several times slower than in a plain realm (measured: the demo's n = 120 pair, 125 ms
+// against 47 ms). Code we evaluate gets these built-ins as parameters of an outer function, so they
+// are plain local bindings; user code may still shadow them with its own declarations.
+const realmGlobals = ['Math', 'Number', 'Array', 'Float64Array', 'Float32Array', 'Int32Array', 'Object', 'Reflect', 'JSON', 'Date', 'String', 'Symbol', 'Error', 'RangeError', 'TypeError', 'Map', 'Set', 'Infinity', 'NaN', 'isFinite', 'isNaN'].join(', ');
+
+const runnerScript = new vm.Script(`(function (${realmGlobals}) {\n${runnerSource}\nglobalThis.__slopecheckRunner = __slopecheckRunner;\n})(${realmGlobals});`, {
+  filename: 'slopecheck-runner.js',
+});
 // Lock the runner before user code runs, so the module cannot swap the code that writes its report.
 const prepareScript = new vm.Script(
   // The value is restated: vm's global interceptor loses it when a descriptor leaves it out.
@@ -47,7 +55,8 @@ function handle(request: SandboxRequest): SandboxReply {
     runUntilDeadline(runnerScript);
     runUntilDeadline(prepareScript);
     // The wrapper sits on its own line; lineOffset -1 keeps stack lines equal to bundle lines.
-    const loadScript = new vm.Script(`__slopecheckRunner.loadModule(function (exports, module, require) {\n${request.code}\n});`, {
+    const factory = `(function (${realmGlobals}) { return function (exports, module, require) {\n${request.code}\n}; })(${realmGlobals})`;
+    const loadScript = new vm.Script(`__slopecheckRunner.loadModule(${factory});`, {
       filename: bundleScriptName,
       lineOffset: -1,
     });
