@@ -8,6 +8,7 @@ import * as path from 'node:path';
 import { after, before, describe, test } from 'node:test';
 import { screenshot } from './browser';
 import { openEditorSession, type EditorSession } from './session';
+import { isAlive } from '../support/processes';
 
 const pollMs = 200;
 
@@ -32,14 +33,6 @@ function commandLine(pid: number): string {
   }
 }
 
-function isAlive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 /** Polls `probe` until it returns a value, or fails after `timeoutMs` with `what`. */
 async function eventually<T>(probe: () => T | undefined, what: string, timeoutMs = 30_000): Promise<T> {

@@ -29,8 +29,8 @@ after(async () => {
   rmSync(scratch, { recursive: true, force: true });
 });
 
-// Correct pairs (derivatives by hand, common practice) around three faulty ones.
-const mixedDocument = [
+// A correct pair (derivatives by hand, common practice).
+const bowlPair = [
   '/** @probe [0.5, -1] */',
   'export function bowl(x: [number, number]): number {',
   '  return x[0] * x[0] + 3 * x[1] * x[1];',
@@ -38,6 +38,11 @@ const mixedDocument = [
   'export function bowlGrad(x: [number, number]): [number, number] {',
   '  return [2 * x[0], 6 * x[1]];',
   '}',
+];
+
+// Correct pairs around three faulty ones.
+const mixedDocument = [
+  ...bowlPair,
   '',
   'export function stalled(x: [number, number]): number {',
   '  let total = 0;',
@@ -149,13 +154,7 @@ describe('prototype pollution in user code', () => {
       "(Object.prototype as any).toJSON = function () { return 'polluted'; };",
       "(Array.prototype as any).toJSON = function () { return 'polluted'; };",
       '(Object.prototype as any).severity = 4;',
-      '/** @probe [0.5, -1] */',
-      'export function bowl(x: [number, number]): number {',
-      '  return x[0] * x[0] + 3 * x[1] * x[1];',
-      '}',
-      'export function bowlGrad(x: [number, number]): [number, number] {',
-      '  return [2 * x[0], 6 * x[1]];',
-      '}',
+      ...bowlPair,
       '',
     ].join('\n');
     const pollutingFile = path.join(scratch, 'polluter.ts');

@@ -8,6 +8,7 @@ import type { PairReport } from '../../server/src/engine/types';
 import { SandboxPool } from '../../server/src/sandbox/pool';
 import { sandboxScript } from '../support/paths';
 import { roundTripPlan, tempProject, waitFor } from './support';
+import { isAlive } from '../support/processes';
 
 const project = tempProject();
 after(() => project.remove());
@@ -26,15 +27,6 @@ async function assertAnswers(pool: SandboxPool): Promise<void> {
   assert.deepEqual(codes(report), ['missing-export']);
 }
 
-/** True while a process with this id exists (signal 0 only checks). */
-function isAlive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 /** CPU time the process has used, in clock ticks (Linux /proc/<pid>/stat, fields 14 and 15: utime, stime). */
 function cpuTicks(pid: number): number {
