@@ -2,7 +2,7 @@
 // say why instead of failing silently.
 import * as vscode from 'vscode';
 import { methods, type DocumentParams, type PairListing } from '../../server/src/shared/protocol';
-import { verdictWords } from '../../server/src/shared/verdictWords';
+import { verdictWords } from '../../server/src/shared/wording';
 import { commandIds } from './commandIds';
 import { pairAtCursor, symbolSpans, type SymbolLike } from './pairAtCursor';
 import type { ReportPanels } from './report/panel';

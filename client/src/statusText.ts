@@ -2,7 +2,7 @@
 // and the active file's summary. Pure, so it is tested under node.
 import type { PairStatus } from '../../server/src/engine/types';
 import type { DocumentCheckSummary } from '../../server/src/shared/summary';
-import { verdictCountWords } from '../../server/src/shared/verdictWords';
+import { verdictCountWords } from '../../server/src/shared/wording';
 import { commandIds, manageTrustCommand } from './commandIds';
 
 export type ServerHealth = 'starting' | 'running' | 'stopped';

@@ -44,7 +44,7 @@ test('the four plots are there under their stable selectors', () => {
 test('headline caution, verdict and figures table', () => {
   for (const page of [html, passingHtml]) assert.ok(page.includes(localEstimateCaution.replace(/'/g, '&#39;')));
   assert.match(html, /class="verdict verdict-fail" data-status="fail">gradient wrong</);
-  assert.match(html, /<th scope="row">Shape of the error<\/th><td>wrong components: 1<\/td>/);
+  assert.match(html, /<th scope="row">Shape of the error<\/th><td>component 1 wrong<\/td>/);
   assert.match(html, /<tr class="mismatch" data-index="1">/);
   assert.match(html, /<button type="button" data-action="copy-json">Copy as JSON<\/button>/);
   assert.match(passingHtml, /class="verdict verdict-pass" data-status="pass">gradient matches</);

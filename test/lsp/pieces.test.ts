@@ -10,7 +10,7 @@ import { gradientPatch, type FixableDiagnosis } from '../../server/src/lsp/gradi
 import { hoverMarkdown } from '../../server/src/lsp/hover';
 import { probeInsertion } from '../../server/src/lsp/probeGuess';
 import { applyReplacements, parseSource } from '../../server/src/lsp/sourceEdits';
-import { floorToSignificant } from '../../server/src/lsp/wording';
+import { floorToSignificant } from '../../server/src/shared/wording';
 import { errorReport } from '../../server/src/sandbox/reports';
 
 test('the safe rate is 1/L̂ rounded down to two significant figures', () => {

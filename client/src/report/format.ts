@@ -1,5 +1,6 @@
 // Number and text formatting shared by the report's tables and plots.
 // Pure: the report's figures come through JSON, where NaN and ±Infinity arrive as null.
+import { trimExponent } from '../../../server/src/engine/format';
 
 /** A number from the report, or nothing when JSON turned a non-finite value into null. */
 export type Figure = number | null | undefined;
@@ -15,7 +16,7 @@ export function formatFigure(x: Figure): string {
   if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
   if (x === 0) return '0';
   const magnitude = Math.abs(x);
-  const text = magnitude >= 1e6 || magnitude < 1e-4 ? shortExponent(x.toExponential(5)) : String(Number(x.toPrecision(6)));
+  const text = magnitude >= 1e6 || magnitude < 1e-4 ? trimExponent(x.toExponential(5)) : String(Number(x.toPrecision(6)));
   return text.replace(/^-/, '−');
 }
 
@@ -23,14 +24,14 @@ export function formatFigure(x: Figure): string {
 export function formatBound(x: Figure): string {
   if (!isFiniteNumber(x)) return formatFigure(x);
   if (x === 0) return '0';
-  return shortExponent(x.toExponential(1)).replace(/^-/, '−');
+  return trimExponent(x.toExponential(1)).replace(/^-/, '−');
 }
 
 /** An axis tick: short, and exact for powers of ten. */
 export function formatTick(x: number): string {
   if (x === 0) return '0';
   const magnitude = Math.abs(x);
-  if (magnitude >= 1e4 || magnitude < 1e-3) return shortExponent(x.toExponential(2)).replace(/^-/, '−');
+  if (magnitude >= 1e4 || magnitude < 1e-3) return trimExponent(x.toExponential(2)).replace(/^-/, '−');
   return String(Number(x.toPrecision(4))).replace(/^-/, '−');
 }
 
@@ -48,11 +49,4 @@ export function formatDuration(ms: Figure): string {
 /** Escapes text for HTML and XML content and attribute values. */
 export function escapeMarkup(text: string): string {
   return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
-}
-
-/** "1.50000e-7" → "1.5e-7". */
-function shortExponent(text: string): string {
-  const [mantissa, exponent] = text.split('e');
-  const trimmed = mantissa.includes('.') ? mantissa.replace(/0+$/, '').replace(/\.$/, '') : mantissa;
-  return `${trimmed}e${exponent.replace('+', '')}`;
 }

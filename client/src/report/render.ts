@@ -1,9 +1,9 @@
 // The report's content as an HTML string: the verdict, the caution, the figures,
 // the four plots and the per-component table. Pure, so it is tested under node;
 // the webview script only inserts it. Every text from the user's code is escaped.
-import type { Diagnosis, PairReport, ProbeReport } from '../../../server/src/engine/types';
+import type { PairReport, ProbeReport } from '../../../server/src/engine/types';
 import type { PairReportResult } from '../../../server/src/shared/protocol';
-import { verdictWords } from '../../../server/src/shared/verdictWords';
+import { describeDiagnosis, verdictWords } from '../../../server/src/shared/wording';
 import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from './format';
 import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
 
@@ -102,21 +102,6 @@ function componentTable(probe: ProbeReport): string {
     )
     .join('');
   return `<table class="component-table">${head('direction')}<tbody>${rows}</tbody></table>`;
-}
-
-function describeDiagnosis(d: Diagnosis): string {
-  switch (d.kind) {
-    case 'sign':
-      return 'sign flipped';
-    case 'factor':
-      return `off by a factor of ${formatFigure(d.factor)}`;
-    case 'permutation':
-      return `components swapped: ${d.pairs.map(([a, b]) => `${a}↔${b}`).join(', ')}`;
-    case 'subset':
-      return `wrong components: ${d.components.join(', ')}`;
-    case 'unknown':
-      return 'no simple pattern';
-  }
 }
 
 function consoleSection(lines: string[]): string {

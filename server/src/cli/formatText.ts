@@ -3,7 +3,7 @@ import { findingLine } from '../check/checkDocument';
 import type { Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
-import { verdictCountWords, verdictWords } from '../shared/verdictWords';
+import { verdictCountWords, verdictWords } from '../shared/wording';
 
 const severityWord: Record<Severity, string> = { error: 'error', warning: 'warn', info: 'note' };
 

@@ -20,7 +20,8 @@ export function formatList(items: number[], limit = 8): string {
   return items.length > limit ? `${shown} and ${items.length - limit} more` : shown;
 }
 
-function trimExponent(text: string): string {
+/** "1.50000e-7" → "1.5e-7". */
+export function trimExponent(text: string): string {
   const [mantissa, exponent] = text.split('e');
   const trimmed = mantissa.includes('.') ? mantissa.replace(/0+$/, '').replace(/\.$/, '') : mantissa;
   return `${trimmed}e${exponent.replace('+', '')}`;

@@ -9,7 +9,7 @@ import { diagnosticSource, type DiagnosticData } from './diagnostics';
 import { gradientPatch, isFixable } from './gradientPatch';
 import { probeInsertion } from './probeGuess';
 import { applyReplacements, indentationAt, parseSource, type Replacement } from './sourceEdits';
-import { describeDiagnosis, floorToSignificant } from './wording';
+import { describeDiagnosis, floorToSignificant } from '../shared/wording';
 
 export interface CodeActionInput {
   uri: string;

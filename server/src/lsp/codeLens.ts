@@ -3,7 +3,7 @@ import type { CodeLens } from 'vscode-languageserver';
 import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair } from '../discovery/types';
 import { toRange } from './diagnostics';
-import { describeDiagnosis, floorToSignificant, shortNumber, statusWords } from './wording';
+import { describeDiagnosis, floorToSignificant, shortNumber, verdictWords } from '../shared/wording';
 
 export const commands = {
   openReport: 'slopecheck.openReport',
@@ -17,13 +17,13 @@ export function lensTitle(outcome: PairOutcome | null, checking: boolean): strin
   switch (report.status) {
     case 'pass': {
       const step = report.smoothness ? floorToSignificant(report.smoothness.safeStep, 2) : null;
-      return step === null ? statusWords.pass : `${statusWords.pass} · step ≤ ${shortNumber(step, 2)} (local estimate)`;
+      return step === null ? verdictWords.pass : `${verdictWords.pass} · step ≤ ${shortNumber(step, 2)} (local estimate)`;
     }
     case 'fail':
-      return `${statusWords.fail}: ${describeDiagnosis(report.diagnosis)}`;
+      return `${verdictWords.fail}: ${describeDiagnosis(report.diagnosis)}`;
     default: {
       const reason = report.findings.find((f) => f.severity !== 'info') ?? report.findings[0];
-      return reason ? `${statusWords[report.status]}: ${reason.code}` : statusWords[report.status];
+      return reason ? `${verdictWords[report.status]}: ${reason.code}` : verdictWords[report.status];
     }
   }
 }

@@ -6,7 +6,7 @@ import { findingHelpUrl } from '../check/codes';
 import type { SourceSpan } from '../discovery/types';
 import { formatBound, formatValue } from '../engine/format';
 import type { Finding, Severity } from '../engine/types';
-import { describeDiagnosis } from './wording';
+import { describeDiagnosis } from '../shared/wording';
 
 export const diagnosticSource = 'slopecheck';
 

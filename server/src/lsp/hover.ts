@@ -3,7 +3,7 @@
 import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import type { RateStatus } from '../engine/types';
-import { describeDiagnosis, shortNumber, statusWords } from './wording';
+import { describeDiagnosis, shortNumber, verdictWords } from '../shared/wording';
 
 export type NameRole = 'objective' | 'gradient' | 'learningRate';
 
@@ -33,7 +33,7 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
   if (pair.skipped) return `**${title}** · not checked: \`// slopecheck-skip\` is above it`;
   if (!outcome) return `**${title}** · ${checking ? 'checking…' : 'not checked yet'}`;
   const { report } = outcome;
-  const verdict = report.status === 'fail' ? `${statusWords.fail}: ${describeDiagnosis(report.diagnosis)}` : statusWords[report.status];
+  const verdict = report.status === 'fail' ? `${verdictWords.fail}: ${describeDiagnosis(report.diagnosis)}` : verdictWords[report.status];
   const s = report.smoothness;
   const rows: Array<[string, string]> = [];
   if (report.maxRelError !== null) rows.push(['max relative error', shortNumber(report.maxRelError)]);

@@ -1,4 +1,6 @@
-// Shared wording of verdicts and numbers for diagnostics, hovers and code lenses.
+// The words and figures a user reads about a pair, one set for every place they appear
+// (diagnostics, hover, code lens, quick pick, status bar, report, CLI).
+import { formatList } from '../engine/format';
 import type { Diagnosis, PairStatus } from '../engine/types';
 
 /** Rounds a positive x down to `digits` significant figures: a step taken from it stays at or below x. */
@@ -31,15 +33,23 @@ export function describeDiagnosis(diagnosis: Diagnosis | null): string {
     case 'permutation':
       return `components swapped (${diagnosis.pairs.map(([i, j]) => `${i} ↔ ${j}`).join(', ')})`;
     case 'subset':
-      return `${diagnosis.components.length === 1 ? 'component' : 'components'} ${listIndices(diagnosis.components)} wrong`;
+      return `${diagnosis.components.length === 1 ? 'component' : 'components'} ${formatList(diagnosis.components, 6)} wrong`;
     default:
       return 'wrong, with no simple pattern';
   }
 }
 
-export { verdictWords as statusWords } from '../shared/verdictWords';
+export const verdictWords: Record<PairStatus, string> = {
+  pass: 'gradient matches',
+  fail: 'gradient wrong',
+  inconclusive: 'undecided',
+  error: 'not checked',
+};
 
-export function listIndices(indices: number[], limit = 6): string {
-  const shown = indices.slice(0, limit).join(', ');
-  return indices.length > limit ? `${shown} and ${indices.length - limit} more` : shown;
-}
+/** The same verdicts as counts: "3 matching, 2 wrong". */
+export const verdictCountWords: Record<PairStatus, string> = {
+  pass: 'matching',
+  fail: 'wrong',
+  inconclusive: 'undecided',
+  error: 'not checked',
+};
