@@ -6,7 +6,9 @@ import * as path from 'node:path';
 import * as vm from 'node:vm';
 import { defaultCheckOptions, type CheckPlan } from '../server/src/engine/types';
 import { bundleDocument, SandboxPool } from '../server/src/sandbox';
+import { scopeKeysOf } from '../server/src/sandbox/scopeHook';
 import { sandboxScript } from '../test/support/paths';
+import { planOf } from '../test/support/plans';
 
 export interface ScaleRow {
   n: number;
@@ -51,10 +53,7 @@ export function gradient(x: Float64Array): Float64Array {
 }
 
 function plan(n: number): CheckPlan {
-  return {
-    objective: 'objective', gradient: 'gradient', combined: null, argumentKind: 'float64array', probes: [], probeExports: ['start'],
-    dimension: n, learningRate: null, options: { ...defaultCheckOptions },
-  };
+  return planOf({ argumentKind: 'float64array', probes: [], probeKeys: ['start'], dimension: n, options: { ...defaultCheckOptions } });
 }
 
 /** Mean time of one call, measured on the same bundle in a fresh vm context as the sandbox uses. */
@@ -83,7 +82,7 @@ export async function runScale(log: (line: string) => void): Promise<ScaleRow[]>
   const rows: ScaleRow[] = [];
   try {
     for (const n of scaleDimensions) {
-      const bundle = await bundleDocument(moduleText(n), path.join(os.tmpdir(), 'slopecheck-bench', `scale${n}.ts`));
+      const bundle = await bundleDocument(moduleText(n), path.join(os.tmpdir(), 'slopecheck-bench', `scale${n}.ts`), scopeKeysOf(plan(n)));
       if (bundle.errors.length > 0) throw new Error(`bundle failed: ${JSON.stringify(bundle.errors)}`);
       // One warm-up run, so process start and first compilation are not counted.
       await pool.run(bundle, plan(n));

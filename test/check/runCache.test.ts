@@ -7,6 +7,7 @@ import { CachedRunner } from '../../server/src/check/runCache';
 import { defaultCheckOptions, type CheckPlan, type Finding } from '../../server/src/engine/types';
 import type { Bundle } from '../../server/src/sandbox/bundle';
 import { errorReport } from '../../server/src/sandbox/reports';
+import { planOf, recipeOf } from '../support/plans';
 
 function countingRunner(findings: Finding[] = []): PairRunner & { runs: number } {
   const runner = {
@@ -20,10 +21,7 @@ function countingRunner(findings: Finding[] = []): PairRunner & { runs: number }
 }
 
 const bundle = (code: string): Bundle => ({ code, fileName: '/x/a.ts', sourceRoot: '/x', builtinImports: [], builtinImportSites: [], errors: [] });
-const plan = (seed: number): CheckPlan => ({
-  objective: 'f', gradient: 'g', combined: null, argumentKind: 'array', probes: [[1]], probeExports: [], dimension: null, learningRate: null,
-  options: { ...defaultCheckOptions, seed },
-});
+const plan = (seed: number): CheckPlan => planOf({ recipe: recipeOf('f', 'g'), probes: [[1]], dimension: null, options: { ...defaultCheckOptions, seed } });
 
 test('the same code and plan run once; other code or options run again', async () => {
   const inner = countingRunner();

@@ -21,10 +21,14 @@ test('each conventional name is used when the file has exactly one pair', () => 
   }
 });
 
-test('other names, unexported consts and non-numeric consts are not learning rates', () => {
+test('a conventional name need not be exported', () => {
+  const pair = onlyPair(discoverPairs(source(...pairSource, 'const lr = 0.05;'), 'model.ts'));
+  assert.deepEqual(pair.plan.learningRate, { name: 'lr', value: 0.05 });
+});
+
+test('other names and non-numeric consts are not learning rates', () => {
   for (const line of [
     'export const rate = 0.05;',
-    'const lr = 0.05;',
     "export const lr = 'fast';",
     'export const lr = [0.1];',
     'export const lr = Math.PI / 100;',
@@ -55,7 +59,7 @@ test('@learningRateFor assigns a rate of any name to its pair', () => {
   );
   const result = discoverPairs(text, 'model.ts');
   assert.deepEqual(
-    result.pairs.map((pair) => [pair.plan.objective, pair.plan.learningRate]),
+    result.pairs.map((pair) => [pair.objective.name, pair.plan.learningRate]),
     [
       ['loss', { name: 'lr', value: 0.125 }],
       ['cost', { name: 'costStep', value: 0.25 }],

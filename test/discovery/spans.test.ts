@@ -60,7 +60,7 @@ test('a file with syntax errors still yields its pairs, and each parse error bec
   );
   const result = discoverPairs(text, 'model.ts');
   assert.deepEqual(
-    result.pairs.map((pair) => pair.plan.objective),
+    result.pairs.map((pair) => pair.objective.name),
     ['loss'],
   );
   assert.ok(result.fileFindings.length >= 1);
@@ -98,7 +98,7 @@ test('JavaScript files: JSDoc tags, JSDoc parameter types and export forms', () 
   const result = discoverPairs(text, 'model.js');
   assert.deepEqual(result.fileFindings, []);
   assert.deepEqual(
-    result.pairs.map((pair) => [pair.plan.objective, pair.plan.gradient, pair.matchedBy, pair.plan.dimension, pair.plan.argumentKind]),
+    result.pairs.map((pair) => [pair.objective.name, pair.gradient?.name ?? null, pair.matchedBy, pair.plan.dimension, pair.plan.argumentKind]),
     [
       ['loss', 'slope', 'gradientOf-tag', 2, 'array'],
       ['energy', 'energyGrad', 'name', 3, 'float64array'],
@@ -106,7 +106,7 @@ test('JavaScript files: JSDoc tags, JSDoc parameter types and export forms', () 
     ],
   );
   assert.deepEqual(result.pairs[0].plan.learningRate, { name: 'lr', value: 0.1 });
-  assert.deepEqual(result.pairs[2].plan.combined, { valueKey: 'value', gradientKey: 'grad' });
+  assert.deepEqual(result.pairs[2].plan.recipe.split, { value: 'value', derivative: 'grad' });
 });
 
 test('the file extension picks the parser: .js, .mjs and .cjs parse as JavaScript', () => {
@@ -117,7 +117,7 @@ test('the file extension picks the parser: .js, .mjs and .cjs parse as JavaScrip
   for (const fileName of ['model.js', 'model.mjs', 'model.cjs', 'MODEL.JS']) {
     const result = discoverPairs(text, fileName);
     assert.ok(result.fileFindings.some((finding) => finding.code === 'syntax-error'), fileName);
-    assert.equal(result.pairs[0]?.plan.gradient, 'lossGrad', fileName);
+    assert.equal(result.pairs[0]?.gradient?.name, 'lossGrad', fileName);
   }
 });
 
@@ -126,5 +126,5 @@ test('an unsaved buffer whose file does not exist is read from the text given', 
   assert.equal(existsSync(fileName), false);
   const text = source('export const loss = (x: [number]) => x[0] ** 2;', 'export const lossGrad = (x: [number]) => [2 * x[0]];');
   const pair = onlyPair(discoverPairs(text, fileName));
-  assert.deepEqual([pair.plan.objective, pair.plan.gradient, pair.plan.dimension], ['loss', 'lossGrad', 1]);
+  assert.deepEqual([pair.objective.name, pair.gradient?.name, pair.plan.dimension], ['loss', 'lossGrad', 1]);
 });

@@ -12,12 +12,17 @@ export function source(...lines: string[]): string {
 }
 
 export function onlyPair(result: DiscoveryResult): DiscoveredPair {
-  assert.equal(result.pairs.length, 1, `expected one pair, got ${result.pairs.map((p) => p.plan.objective).join(', ')}`);
+  assert.equal(result.pairs.length, 1, `expected one pair, got ${result.pairs.map((p) => p.plan.label).join(', ')}`);
   return result.pairs[0];
 }
 
+/** Each pair as [value function, derivative], by the names the user knows them by (`loss`, `model.lossGrad`); null for a combined function. */
 export function pairNames(result: DiscoveryResult): Array<[string, string | null]> {
-  return result.pairs.map((pair) => [pair.plan.objective, pair.plan.gradient]);
+  return result.pairs.map((pair) => [pair.objective.name, pair.gradient?.name ?? null]);
+}
+
+export function fileFindingCodes(result: DiscoveryResult): string[] {
+  return result.fileFindings.map((finding) => finding.code);
 }
 
 export function findingCodes(pair: DiscoveredPair): string[] {

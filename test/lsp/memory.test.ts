@@ -10,15 +10,13 @@ import { DiscoveryCache } from '../../server/src/lsp/discoveryCache';
 import { DocumentChecks } from '../../server/src/lsp/documentChecks';
 import { PatchVerifier } from '../../server/src/lsp/patchVerifier';
 import { CheckProgress, type ProgressReporter } from '../../server/src/lsp/progress';
+import { planOf, recipeOf } from '../support/plans';
 import type { Bundle } from '../../server/src/sandbox/bundle';
 import { errorReport } from '../../server/src/sandbox/reports';
 import { defaultSettings } from '../../server/src/shared/settings';
 
 const bundle = (code: string): Bundle => ({ code, fileName: '/x/a.ts', sourceRoot: '/x', builtinImports: [], builtinImportSites: [], errors: [] });
-const plan: CheckPlan = {
-  objective: 'f', gradient: 'g', combined: null, argumentKind: 'array', probes: [[1]], probeExports: [], dimension: null, learningRate: null,
-  options: defaultCheckOptions,
-};
+const plan: CheckPlan = planOf({ recipe: recipeOf('f', 'g'), probes: [[1]], dimension: null });
 
 /** A runner whose report carries `findingCount` findings of about 100 characters each. */
 function runnerWithReports(findingCount: number): PairRunner & { runs: number } {

@@ -5,6 +5,7 @@ import * as path from 'node:path';
 import { after, describe, test } from 'node:test';
 import { SandboxPool } from '../../server/src/sandbox/pool';
 import { sandboxScript } from '../support/paths';
+import { recipeOf } from '../support/plans';
 import { lineOf, planFor, tempProject } from './support';
 
 const project = tempProject();
@@ -92,7 +93,7 @@ describe('sandbox with the engine', () => {
       '}',
       '',
     ].join('\n');
-    const plan = planFor({ objective: 'valueAndGradient', gradient: null, combined: { valueKey: 'value', gradientKey: 'gradient' }, probes: [[1]], dimension: 1 });
+    const plan = planFor({ recipe: recipeOf('valueAndGradient', null, { value: 'value', derivative: 'gradient' }), probes: [[1]], dimension: 1 });
     const { report } = await check(text, plan);
     const finding = report.findings.find((f) => f.code === 'runtime-error');
     assert.ok(finding, JSON.stringify(report.findings));

@@ -30,7 +30,7 @@ function codes(report: PairReport): string[] {
 /** The sandbox answered from the runner: the module loaded and the plan was read. */
 async function assertHealthy(target = pool): Promise<void> {
   const { report } = await runModule('exports.value = 1;\n', target);
-  assert.deepEqual(codes(report), ['missing-export']);
+  assert.deepEqual(codes(report), ['unresolved-target']);
 }
 
 describe('sandbox faults', () => {
@@ -71,18 +71,18 @@ describe('sandbox faults', () => {
     assert.equal(report.findings[0].location?.line, lineOf(text, '// RECURSE'));
   });
 
-  test('an export getter that throws is a runtime-error on the getter line', async () => {
+  test('a method getter that throws is a runtime-error on the getter line', async () => {
     const text = [
-      'exports.gradient = (x) => x;',
-      "Object.defineProperty(exports, 'objective', {",
-      '  enumerable: true,',
-      "  get() { throw new Error('getter boom'); }, // GETTER",
-      '});',
+      'const model = {',
+      '  gradient: (x) => x,',
+      "  get objective() { throw new Error('getter boom'); }, // GETTER",
+      '};',
       '',
     ].join('\n');
-    const { report } = await runModule(text, pool, planFor());
+    const recipe = { host: { key: 'model', construct: false }, value: 'objective', derivative: 'gradient', split: null, extraArguments: [] };
+    const { report } = await runModule(text, pool, planFor({ recipe }));
     assert.deepEqual(codes(report), ['runtime-error']);
-    assert.match(report.findings[0].message, /Reading the export 'objective' threw: Error: getter boom/);
+    assert.match(report.findings[0].message, /Reading 'model.objective' threw: Error: getter boom/);
     assert.equal(report.findings[0].location?.line, lineOf(text, '// GETTER'));
   });
 
@@ -128,19 +128,30 @@ for (const [name, attempt] of Object.entries(tries)) {
     assert.deepEqual(lines.slice(0, 5), [
       'constructorRoute: threw EvalError',
       'functionRoute: threw EvalError',
-      'globalProcess: undefined',
+      // The inert stand-in a script guard reads (processStandIn.ts), not the host's process.
+      'globalProcess: object',
       'requireFs: threw Error',
       'requireChildProcess: threw Error',
     ]);
     assert.match(lines[5], /^dynamicImport: (threw|object)/);
-    assert.deepEqual(codes(report), ['missing-export']);
+    assert.deepEqual(codes(report), ['unresolved-target']);
   });
 
   test('process.exit is not there to call, and the pool keeps working', async () => {
     const { report } = await runModule('process.exit(3);\n');
     assert.deepEqual(codes(report), ['runtime-error']);
-    assert.match(report.findings[0].message, /ReferenceError: process is not defined/);
+    assert.match(report.findings[0].message, /process\.exit is not available in the sandbox/);
     await assertHealthy();
+  });
+
+  test('the process a script guard sees is an inert stand-in: no arguments, no environment, no host internals', async () => {
+    const text = [
+      "console.log([typeof process.binding, typeof process.mainModule, typeof process.kill, process.argv.length, Object.keys(process.env).length, require.main === module].join(' '));",
+      'if (require.main === module) { throw new Error("the script entry ran"); }',
+    ].join('\n');
+    const result = await pool.run(await project.bundle(text, 'guard.js'), roundTripPlan);
+    assert.deepEqual(result.console, ['undefined undefined undefined 0 0 false']);
+    assert.deepEqual(codes(result.report), ['unresolved-target']);
   });
 
   test('console spam is truncated and never reaches the host output', async () => {
@@ -168,7 +179,7 @@ for (const [name, attempt] of Object.entries(tries)) {
     assert.equal(result.console[0], 'spam line 0');
     assert.ok(result.console.join('\n').length <= 20_000);
     assert.equal(written.filter((chunk) => chunk.includes('spam line')).length, 0);
-    assert.deepEqual(codes(result.report), ['missing-export']);
+    assert.deepEqual(codes(result.report), ['unresolved-target']);
   });
 
   test('console formats values roughly as console.log does', async () => {
@@ -178,25 +189,25 @@ for (const [name, attempt] of Object.entries(tries)) {
 
   test('Object.prototype pollution stays in the sandbox', async () => {
     const { report } = await runModule("Object.prototype.polluted = 'yes';\nArray.prototype.map = () => 'hijacked';\n");
-    assert.deepEqual(codes(report), ['missing-export']);
+    assert.deepEqual(codes(report), ['unresolved-target']);
     assert.equal(({} as { polluted?: string }).polluted, undefined);
     assert.deepEqual([1, 2].map((x) => x * 2), [2, 4]);
   });
 
   test('a replaced JSON.stringify cannot garble the report', async () => {
     const { report } = await runModule("JSON.stringify = () => 'garbage';\nJSON.parse = () => ({});\n");
-    assert.deepEqual(codes(report), ['missing-export']);
+    assert.deepEqual(codes(report), ['unresolved-target']);
   });
 });
 
 describe('sandbox processes', () => {
   test('a warm process is reused, with a fresh context each run', async () => {
     const first = await runModule('globalThis.leftBehind = 1;\n');
-    assert.deepEqual(codes(first.report), ['missing-export']);
+    assert.deepEqual(codes(first.report), ['unresolved-target']);
     const pids = pool.processIds();
     assert.equal(pids.length, 1);
     const second = await runModule("if (typeof leftBehind !== 'undefined') throw new Error('context was reused');\n");
-    assert.deepEqual(codes(second.report), ['missing-export']);
+    assert.deepEqual(codes(second.report), ['unresolved-target']);
     assert.deepEqual(pool.processIds(), pids);
   });
 

@@ -24,7 +24,7 @@ const codes = (report: PairReport) => report.findings.map((finding) => finding.c
 /** A full round trip: the module loaded and the runner answered that the plan's export is missing. */
 async function assertAnswers(pool: SandboxPool): Promise<void> {
   const { report } = await runModule(pool, 'exports.value = 1;\n');
-  assert.deepEqual(codes(report), ['missing-export']);
+  assert.deepEqual(codes(report), ['unresolved-target']);
 }
 
 
@@ -93,7 +93,7 @@ describe('a sandbox process killed from outside', () => {
       const [pid] = pool.processIds();
       process.kill(pid, 'SIGKILL');
       const { report } = await pool.run(bundle, roundTripPlan);
-      assert.deepEqual(codes(report), ['missing-export']);
+      assert.deepEqual(codes(report), ['unresolved-target']);
     } finally {
       pool.dispose();
     }

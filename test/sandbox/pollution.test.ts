@@ -15,7 +15,7 @@ after(() => {
 });
 
 // f(x) = x₀² + 3x₁², ∇f = (2x₀, 6x₁) (common practice).
-const correctPair = 'exports.objective = (x) => x[0] * x[0] + 3 * x[1] * x[1];\nexports.gradient = (x) => [2 * x[0], 6 * x[1]];\n';
+const correctPair = 'const objective = (x) => x[0] * x[0] + 3 * x[1] * x[1];\nconst gradient = (x) => [2 * x[0], 6 * x[1]];\nexports.objective = objective;\nexports.gradient = gradient;\n';
 
 async function statusAfter(pollution: string): Promise<{ status: string; codes: string[] }> {
   const bundle = await project.bundle(pollution + '\n' + correctPair, 'main.js');

@@ -2,15 +2,19 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import * as path from 'node:path';
-import { defaultCheckOptions, type CheckPlan } from '../../server/src/engine/types';
+import type { CheckPlan } from '../../server/src/engine/types';
 import { bundleDocument, type Bundle } from '../../server/src/sandbox/bundle';
+import { planOf, recipeOf } from '../support/plans';
 
 export interface TempProject {
   dir: string;
   /** Writes a file of the project and returns its absolute path. */
   write(name: string, text: string): string;
-  /** Bundles `text` as the (possibly unsaved) document `name` of the project. */
-  bundle(text: string, name?: string): Promise<Bundle>;
+  /**
+   * Bundles `text` as the (possibly unsaved) document `name` of the project, exposing the
+   * names the test plans use (`scopeKeys`) through the scope hook.
+   */
+  bundle(text: string, name?: string, scopeKeys?: readonly string[]): Promise<Bundle>;
   remove(): void;
 }
 
@@ -23,8 +27,8 @@ export function tempProject(): TempProject {
       writeFileSync(file, text);
       return file;
     },
-    bundle(text, name = 'main.ts') {
-      return bundleDocument(text, path.join(dir, name));
+    bundle(text, name = 'main.ts', scopeKeys = testScopeKeys) {
+      return bundleDocument(text, path.join(dir, name), scopeKeys);
     },
     remove() {
       rmSync(dir, { recursive: true, force: true });
@@ -32,26 +36,18 @@ export function tempProject(): TempProject {
   };
 }
 
+/** The module-level names the sandbox tests' plans read. */
+export const testScopeKeys = ['objective', 'gradient', 'valueAndGradient', 'start', 'model'];
+
 export function planFor(overrides: Partial<CheckPlan> = {}): CheckPlan {
-  return {
-    objective: 'objective',
-    gradient: 'gradient',
-    combined: null,
-    argumentKind: 'array',
-    probes: [[1, 2]],
-    probeExports: [],
-    dimension: 2,
-    learningRate: null,
-    options: defaultCheckOptions,
-    ...overrides,
-  };
+  return planOf(overrides);
 }
 
 /**
- * A plan naming an export no module has: the runner answers 'missing-export'
+ * A plan naming a value no module has: the runner answers 'unresolved-target'
  * without calling the engine, which proves a full round trip through the sandbox.
  */
-export const roundTripPlan = planFor({ objective: 'notExportedAnywhere' });
+export const roundTripPlan = planFor({ recipe: recipeOf('notDefinedAnywhere', 'gradient') });
 
 /** 1-based line of the first line of `text` containing `marker`. */
 export function lineOf(text: string, marker: string): number {

@@ -6,6 +6,7 @@ import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import { emptyReport } from '../engine/emptyReport';
 import type { CheckOptions, CheckPlan, Finding, PairReport, PairStatus } from '../engine/types';
 import { bundleDocument, unrunnableBundleFindings } from '../sandbox/bundle';
+import { scopeKeysOf } from '../sandbox/scopeHook';
 import type { SandboxPool } from '../sandbox/pool';
 
 /** What checkDocument needs of the sandbox: the pool itself, or a cache in front of it. */
@@ -35,7 +36,7 @@ export interface CheckDocumentHooks {
 }
 
 /** Codes found by discovery that leave nothing to run. */
-const blockingCodes = new Set(['unknown-dimension', 'bad-probe', 'missing-export']);
+const blockingCodes = new Set(['unknown-dimension', 'bad-probe', 'missing-export', 'missing-argument']);
 
 export async function checkDocument(
   text: string,
@@ -51,7 +52,8 @@ export async function checkDocument(
   const result: DocumentCheck = { fileName, pairs: [], fileFindings: discovery.fileFindings, skipped: wanted.filter((pair) => pair.skipped) };
   if (toCheck.length === 0) return result;
 
-  const bundle = await bundleDocument(text, fileName);
+  // One bundle for every target of the file, exposing every value their plans name.
+  const bundle = await bundleDocument(text, fileName, toCheck.flatMap((pair) => scopeKeysOf(pair.plan)));
   const bundleFindings = unrunnableBundleFindings(bundle);
   for (const pair of toCheck) {
     signal?.throwIfAborted();
@@ -90,6 +92,8 @@ export function findingSpan(pair: DiscoveredPair, finding: Finding): SourceSpan 
       return (pair.learningRate ?? pair.objective).nameSpan;
     case 'probe':
       return pair.objective.probeTags[0] ?? pair.objective.nameSpan;
+    case 'recipe':
+      return finding.recipeKey !== undefined && Object.hasOwn(pair.recipeSpans, finding.recipeKey) ? pair.recipeSpans[finding.recipeKey] : pair.objective.nameSpan;
     default:
       return pair.objective.nameSpan;
   }

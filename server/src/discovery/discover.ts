@@ -1,11 +1,14 @@
-// Entry point of discovery: finds objective/gradient pairs in one document's text, with the
-// probe points, dimension and learning rate to check them with. Parses the text as given
-// (an unsaved buffer works) and never reads the disk or runs user code.
+// Entry point of discovery: finds check targets in one document's text — each a value
+// function with its derivative, how to call them (host object, data arguments, start point)
+// and the learning rate to judge. Parses the text as given (an unsaved buffer works) and
+// never reads the disk or runs user code.
 import * as ts from 'typescript';
-import type { Finding } from '../engine/types';
+import type { CallRecipe, Finding } from '../engine/types';
+import { collectCallables, type Callable } from './callables';
 import { collectBindings, type ModuleBindings } from './exports';
-import { assignLearningRates } from './learningRate';
-import { matchPairs, type MatchedFunction, type PairMatch } from './pairing';
+import { readInvocation } from './invocation';
+import { assignLearningRates, planRate } from './learningRate';
+import { matchPairs, type PairMatch } from './pairing';
 import { readProbeTags, settleDimension } from './probes';
 import { returnedExpressions } from './returns';
 import { hasSkipDirective } from './skip';
@@ -17,7 +20,7 @@ export function discoverPairs(text: string, fileName: string): DiscoveryResult {
   const sourceFile = ts.createSourceFile(fileName, text, ts.ScriptTarget.Latest, true, scriptKindOf(fileName));
   const bindings = collectBindings(sourceFile);
   const types = collectTypeDeclarations(sourceFile);
-  const paired = matchPairs(sourceFile, bindings, types);
+  const paired = matchPairs(sourceFile, collectCallables(bindings), types);
   const learningRates = assignLearningRates(sourceFile, bindings, paired.matches);
   const pairs = paired.matches.map((match) => describePair(sourceFile, bindings, types, match, learningRates.rates.get(match) ?? null));
   return { pairs, fileFindings: [...syntaxErrors(sourceFile), ...paired.fileFindings, ...learningRates.fileFindings] };
@@ -30,42 +33,56 @@ function describePair(
   match: PairMatch,
   learningRate: DiscoveredPair['learningRate'],
 ): DiscoveredPair {
-  const { objective, gradient } = match;
-  const parameterType = firstParameterType(objective.binding.fn!);
-  const hosts = [objective.binding.docHost, ...(gradient ? [gradient.binding.docHost] : [])];
+  const { objective, gradient, group } = match;
+  // The signature that shows the parameter: the objective's, or for an imported objective the derivative's.
+  const signature = (objective.fn ?? gradient?.fn)!;
+  const parameterType = signature ? firstParameterType(signature) : undefined;
+  const hosts = [objective.docHost, ...(gradient ? [gradient.docHost] : [])];
   const probes = readProbeTags(sourceFile, hosts, bindings);
   const settled = settleDimension(tupleLength(parameterType, types), probes);
-  const findings: Finding[] = [...match.findings, ...probes.findings, ...settled.findings];
-  if (probes.probes.length === 0 && probes.probeExports.length === 0 && settled.dimension === null) {
-    findings.push(unknownDimension(objective.name));
-  }
+  const invocation = readInvocation(sourceFile, bindings, match, settled.dimension);
+  const findings: Finding[] = [...match.findings, ...probes.findings, ...settled.findings, ...invocation.findings];
+  const hasProbes = probes.probes.length > 0 || probes.probeKeys.length > 0;
+  if (!hasProbes && invocation.start === null && settled.dimension === null) findings.push(unknownDimension(objective.label));
+  const recipeSpans = { ...invocation.keySpans };
+  if (group.host) recipeSpans[group.host.key] = spanOfNode(sourceFile, group.host.binding.nameNode);
+  const recipe: CallRecipe = {
+    host: group.host ? { key: group.host.key, construct: group.host.construct } : null,
+    value: objective.name,
+    derivative: gradient?.name ?? null,
+    split: match.split,
+    extraArguments: invocation.extraArguments,
+  };
   return {
+    kind: 'gradient',
     objective: { ...namedSpan(sourceFile, objective), probeTags: probes.tagSpans },
     gradient: gradient
-      ? { ...namedSpan(sourceFile, gradient), returnExpressions: returnedExpressions(gradient.binding.fn!).map((e) => spanOfNode(sourceFile, e)) }
+      ? { ...namedSpan(sourceFile, gradient), returnExpressions: gradient.fn ? returnedExpressions(gradient.fn).map((e) => spanOfNode(sourceFile, e)) : [] }
       : null,
     learningRate,
     matchedBy: match.matchedBy,
-    skipped: hasSkipDirective(sourceFile, objective.binding.statement),
+    recipeSpans,
+    skipped: hasSkipDirective(sourceFile, objective.declaration as ts.Statement),
     plan: {
-      objective: objective.name,
-      gradient: gradient?.name ?? null,
-      combined: match.combined,
+      kind: 'gradient',
+      label: objective.label,
+      recipe,
       argumentKind: isFloat64ArrayType(parameterType, types) ? 'float64array' : 'array',
       probes: probes.probes,
-      probeExports: probes.probeExports,
+      probeKeys: probes.probeKeys,
+      start: hasProbes ? null : invocation.start,
       dimension: settled.dimension,
-      learningRate: learningRate ? { name: learningRate.name, value: learningRate.value } : null,
+      learningRate: planRate(learningRate),
     },
     findings,
   };
 }
 
-function namedSpan(sourceFile: ts.SourceFile, matched: MatchedFunction): NamedSpan {
+function namedSpan(sourceFile: ts.SourceFile, callable: Callable): NamedSpan {
   return {
-    name: matched.name,
-    nameSpan: spanOfNode(sourceFile, matched.binding.nameNode),
-    declarationSpan: spanOfNode(sourceFile, matched.binding.statement),
+    name: callable.label,
+    nameSpan: spanOfNode(sourceFile, callable.nameNode),
+    declarationSpan: spanOfNode(sourceFile, callable.declaration),
   };
 }
 
@@ -77,7 +94,7 @@ function unknownDimension(objective: string): Finding {
     message:
       `Slopecheck does not know how many coordinates \`${objective}\` takes, so it has no point to check at. ` +
       'Add a probe point in a JSDoc comment above it, e.g. /** @probe [0.5, -1, 2] */, give its parameter a tuple type such as [number, number], ' +
-      'or state the length with /** @dimension 3 */.',
+      'declare a start point as a module-level const such as `const x0 = [0.5, -1, 2]`, or state the length with /** @dimension 3 */.',
   };
 }
 

@@ -1,122 +1,171 @@
-// Which exported functions form objective/gradient pairs: `@gradientOf` tags first, then
-// gradient names (`lossGrad`, `gradLoss`, …), then combined value-and-gradient functions.
+// Which functions form objective/derivative pairs, within each group of callables (the
+// module's functions, or one host object's methods): `@gradientOf` tags first, then names
+// (`lossGrad`, `dLoss`, `costPrime`, then shared stems such as `softmaxLoss`/`softmaxGrad`,
+// then a generic `gradient` next to the only objective-like function), each confirmed by the
+// signatures; then functions that return value and gradient together.
 import type * as ts from 'typescript';
 import type { Finding } from '../engine/types';
-import { combinedGradientKeys, combinedValueKey, gradientNamesFor, isCombinedName, tagNames } from './conventions';
-import type { ModuleBindings, TopLevelBinding } from './exports';
-import { returnedObjectKeys } from './returns';
+import type { Callable, CallableGroup } from './callables';
+import { combinedGradientKeys, combinedValueKeys, isCombinedName, isDerivativeLikeName, isGenericDerivativeName, isObjectiveLikeName, objectiveNamesFor, tagNames, type NameRank } from './conventions';
+import { firstParameterText, returnShape, takesPoint, type ReturnShape } from './signatures';
 import { spanOfNode } from './spans';
 import { firstWord, hasTag, readTags } from './tags';
-import { objectTypeKeys, returnType, type TypeDeclarations } from './typeShapes';
-import type { DiscoveryResult } from './types';
-
-export interface MatchedFunction {
-  /** The name the module exports it under (or its local name when it is not exported). */
-  name: string;
-  binding: TopLevelBinding;
-}
+import type { TypeDeclarations } from './typeShapes';
+import type { DiscoveryResult, MatchedBy } from './types';
 
 export interface PairMatch {
-  objective: MatchedFunction;
-  gradient: MatchedFunction | null;
-  combined: { valueKey: string; gradientKey: string } | null;
-  matchedBy: 'name' | 'gradientOf-tag' | 'combined';
+  group: CallableGroup;
+  objective: Callable;
+  /** Null when one function returns both (`split`). */
+  gradient: Callable | null;
+  split: { value: string; derivative: string } | null;
+  matchedBy: MatchedBy;
   findings: Finding[];
 }
 
 type FileFinding = DiscoveryResult['fileFindings'][number];
 
-export function matchPairs(
-  sourceFile: ts.SourceFile,
-  bindings: ModuleBindings,
-  types: TypeDeclarations,
-): { matches: PairMatch[]; fileFindings: FileFinding[] } {
-  const exportedFunctions = bindings.exported.filter(({ binding }) => binding.fn !== null);
-  const exportNameOf = (binding: TopLevelBinding) => exportedFunctions.find((entry) => entry.binding === binding)?.exportName;
-  const combinedKeys = new Map<TopLevelBinding, string>();
-  for (const { exportName, binding } of exportedFunctions) {
-    const key = combinedGradientKey(exportName, binding, types);
-    if (key) combinedKeys.set(binding, key);
-  }
+interface Proposal {
+  derivative: Callable;
+  objective: Callable;
+  rank: NameRank | 3;
+}
 
+export function matchPairs(sourceFile: ts.SourceFile, groups: CallableGroup[], types: TypeDeclarations): { matches: PairMatch[]; fileFindings: FileFinding[] } {
   const matches: PairMatch[] = [];
   const fileFindings: FileFinding[] = [];
-  const usedAsGradient = new Set<TopLevelBinding>();
-  const objectivesByTag = new Set<TopLevelBinding>();
-
-  for (const gradient of bindings.functions) {
-    const tag = readTags(sourceFile, gradient.docHost, tagNames.gradientOf)[0];
-    if (!tag) continue;
-    usedAsGradient.add(gradient);
-    const gradientName = exportNameOf(gradient);
-    const target = firstWord(tag.text);
-    const missing = (message: string, span = tag.span) =>
-      fileFindings.push({ code: 'missing-export', severity: 'error', subject: 'gradient', message, span });
-    if (gradientName === undefined) {
-      missing(`\`${gradient.localName}\` is tagged @gradientOf but is not exported, so it cannot be checked. Add \`export\` to it.`, spanOfNode(sourceFile, gradient.nameNode));
-      continue;
-    }
-    if (target === '') {
-      missing(`\`@gradientOf\` on \`${gradientName}\` needs the objective's name, e.g. /** @gradientOf loss */.`);
-      continue;
-    }
-    // The tag may name the objective by its export name or, for `export { a as loss }`, its local name.
-    const objective = [bindings.byExportName.get(target), bindings.byLocalName.get(target)].find((b) => b?.fn && b !== gradient);
-    if (!objective) {
-      missing(`\`${gradientName}\` is tagged @gradientOf ${target}, but this file has no function named \`${target}\`.`);
-      continue;
-    }
-    if (objectivesByTag.has(objective)) continue;
-    objectivesByTag.add(objective);
-    const objectiveName = bindings.byExportName.get(target) === objective ? target : exportNameOf(objective);
-    if (objectiveName !== undefined) {
-      matches.push(pairOf({ name: objectiveName, binding: objective }, { name: gradientName, binding: gradient }, 'gradientOf-tag', []));
-    } else {
-      // Still a pair, so the editor can show where the objective is, but it is not run.
-      const finding: Finding = {
-        code: 'missing-export',
-        severity: 'error',
-        subject: 'gradient',
-        message: `\`${gradientName}\` is the gradient of \`${target}\`, but \`${target}\` is not exported, so the checker cannot call it. Add \`export\` to \`${target}\`.`,
-      };
-      matches.push(pairOf({ name: target, binding: objective }, { name: gradientName, binding: gradient }, 'gradientOf-tag', [finding]));
-    }
-  }
-
-  for (const { exportName, binding } of exportedFunctions) {
-    if (combinedKeys.has(binding) || usedAsGradient.has(binding) || objectivesByTag.has(binding)) continue;
-    const gradient = gradientNamesFor(exportName)
-      .map((name) => ({ name, binding: bindings.byExportName.get(name) }))
-      .find((candidate) => candidate.binding?.fn && candidate.binding !== binding && !usedAsGradient.has(candidate.binding) && !combinedKeys.has(candidate.binding));
-    if (!gradient?.binding) continue;
-    usedAsGradient.add(gradient.binding);
-    matches.push(pairOf({ name: exportName, binding }, { name: gradient.name, binding: gradient.binding }, 'name', []));
-  }
-
-  for (const { exportName, binding } of exportedFunctions) {
-    const gradientKey = combinedKeys.get(binding);
-    if (!gradientKey || usedAsGradient.has(binding)) continue;
-    matches.push({ objective: { name: exportName, binding }, gradient: null, combined: { valueKey: combinedValueKey, gradientKey }, matchedBy: 'combined', findings: [] });
-  }
-
-  matches.sort((a, b) => a.objective.binding.nameNode.pos - b.objective.binding.nameNode.pos);
+  for (const group of groups) matchGroup(sourceFile, group, types, matches, fileFindings);
+  matches.sort((a, b) => a.objective.nameNode.pos - b.objective.nameNode.pos);
   return { matches, fileFindings };
 }
 
-function pairOf(objective: MatchedFunction, gradient: MatchedFunction, matchedBy: PairMatch['matchedBy'], findings: Finding[]): PairMatch {
-  return { objective, gradient, combined: null, matchedBy, findings };
+function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: TypeDeclarations, matches: PairMatch[], fileFindings: FileFinding[]): void {
+  const shapes = new Map<Callable, ReturnShape>(group.callables.map((c) => [c, c.fn ? returnShape(c.fn, types) : { kind: 'unknown' }]));
+  const shapeOf = (c: Callable) => shapes.get(c)!;
+  const pointTaking = (c: Callable) => c.fn === null || takesPoint(c.fn, types);
+  const canBeObjective = (c: Callable) => pointTaking(c) && ['number', 'unknown'].includes(shapeOf(c).kind);
+  const canBeDerivative = (c: Callable) => c.fn !== null && takesPoint(c.fn, types) && ['vector', 'unknown'].includes(shapeOf(c).kind);
+  const used = new Set<Callable>();
+  const byName = (name: string) => group.callables.find((c) => c.names.includes(name));
+  const note = (code: Finding['code'], node: ts.Node, message: string, severity: Finding['severity'] = 'info') =>
+    fileFindings.push({ code, severity, subject: 'gradient', message, span: spanOfNode(sourceFile, node) });
+
+  // 1. Tags: `@gradientOf X` on the derivative names its objective, whatever the names.
+  for (const derivative of group.callables) {
+    const tag = readTags(sourceFile, derivative.docHost, tagNames.gradientOf)[0];
+    if (!tag) continue;
+    used.add(derivative);
+    const target = firstWord(tag.text);
+    if (target === '') {
+      fileFindings.push({ code: 'missing-export', severity: 'error', subject: 'gradient', message: `\`@gradientOf\` on \`${derivative.label}\` needs the objective's name, e.g. /** @gradientOf loss */.`, span: tag.span });
+      continue;
+    }
+    const objective = byName(target);
+    if (!objective || objective === derivative) {
+      fileFindings.push({ code: 'missing-export', severity: 'error', subject: 'gradient', message: `\`${derivative.label}\` is tagged @gradientOf ${target}, but ${group.host ? `\`${group.host.key}\` has no method` : 'this file has no function'} named \`${target}\`.`, span: tag.span });
+      continue;
+    }
+    if (used.has(objective) && matches.some((m) => m.objective === objective)) continue;
+    used.add(objective);
+    matches.push({ group, objective, gradient: derivative, split: null, matchedBy: 'gradientOf-tag', findings: [] });
+  }
+
+  // 2. Names, confirmed by signature: the derivative returns a vector (or we cannot tell), the objective a number.
+  const proposals: Proposal[] = [];
+  const rejected = new Map<Callable, string>();
+  for (const derivative of group.callables) {
+    if (used.has(derivative) || !canBeDerivative(derivative)) continue;
+    const byNames: Array<{ objective: Callable; rank: NameRank | 3 }> = derivative.names.flatMap((alias) => objectiveNamesFor(alias)).flatMap(({ name, rank }) => {
+      const objective = byName(name);
+      return objective && objective !== derivative ? [{ objective, rank }] : [];
+    });
+    const named = byNames.length === 0 && derivative.names.some(isGenericDerivativeName)
+      ? group.callables.filter((c) => c !== derivative && c.names.some(isObjectiveLikeName)).map((objective) => ({ objective, rank: 3 as const }))
+      : byNames;
+    for (const { objective, rank } of named) {
+      if (used.has(objective)) continue;
+      const why = signatureConflict(objective, derivative, canBeObjective, shapeOf);
+      if (why) rejected.set(derivative, why);
+      // A weak link by name needs the signatures to say something, not merely not to disagree.
+      else if (rank === 1 || shapeOf(objective).kind === 'number' || shapeOf(derivative).kind === 'vector') proposals.push({ derivative, objective, rank });
+    }
+  }
+  const best = new Map<Callable, Proposal[]>();
+  for (const proposal of proposals) {
+    const current = best.get(proposal.derivative);
+    if (!current || proposal.rank < current[0].rank) best.set(proposal.derivative, [proposal]);
+    else if (proposal.rank === current[0].rank && !current.some((p) => p.objective === proposal.objective)) current.push(proposal);
+  }
+  const claims = new Map<Callable, Proposal[]>();
+  for (const [derivative, options] of best) {
+    if (options.length > 1) {
+      note('ambiguous-pair', derivative.nameNode, `\`${derivative.label}\` could be the gradient of ${listNames(options.map((o) => o.objective))}; it was not checked. Name its objective with a tag, e.g. /** @gradientOf ${options[0].objective.name} */.`);
+      continue;
+    }
+    const claim = claims.get(options[0].objective) ?? [];
+    claim.push(options[0]);
+    claims.set(options[0].objective, claim);
+  }
+  for (const [objective, claim] of claims) {
+    const strongest = Math.min(...claim.map((p) => p.rank));
+    const winners = claim.filter((p) => p.rank === strongest);
+    if (winners.length > 1) {
+      note('ambiguous-pair', objective.nameNode, `\`${objective.label}\` has more than one candidate gradient: ${listNames(winners.map((w) => w.derivative))}; none was checked. Tag the right one, e.g. /** @gradientOf ${objective.name} */ above \`${winners[0].derivative.name}\`.`);
+      winners.forEach((w) => used.add(w.derivative));
+      continue;
+    }
+    const { derivative, rank } = winners[0];
+    used.add(objective);
+    used.add(derivative);
+    matches.push({ group, objective, gradient: derivative, split: null, matchedBy: rank === 1 ? 'name' : rank === 2 ? 'shared-stem' : 'only-candidate', findings: [] });
+  }
+
+  // 3. One function returning value and gradient: `[f, g]`, `{ value, gradient }`, `{ loss, grad }`, …
+  for (const callable of group.callables) {
+    if (used.has(callable) || !callable.fn || !takesPoint(callable.fn, types)) continue;
+    const split = combinedSplit(callable, shapeOf(callable));
+    if (!split) continue;
+    used.add(callable);
+    matches.push({ group, objective: callable, gradient: null, split, matchedBy: 'combined', findings: [] });
+  }
+
+  // 4. Nothing skipped silently: a gradient-like function left unpaired says why.
+  for (const callable of group.callables) {
+    if (used.has(callable) || !(callable.exported || group.host) || !callable.fn || !callable.names.some(isDerivativeLikeName) || !canBeDerivative(callable)) continue;
+    const objectives = group.callables.filter((c) => c !== callable && !used.has(c) && c.fn && canBeObjective(c) && shapeOf(c).kind === 'number');
+    const reason = rejected.get(callable) ?? (objectives.length === 0 ? 'no function next to it returns a number' : 'no objective name matches it');
+    const tagHint = objectives.length > 0 ? ` If it is the gradient of ${listNames(objectives)}, tag it, e.g. /** @gradientOf ${objectives[0].name} */.` : ' Tag it /** @gradientOf name */ with its objective\'s name.';
+    note('unpaired-function', callable.nameNode, `\`${callable.label}\` looks like a gradient but was not paired: ${reason}.${tagHint}`);
+  }
 }
 
-/**
- * The gradient key when the function returns value and gradient together: by tag, by name,
- * or by a declared return type with `value` and `gradient`/`grad`. Null when it is not combined.
- */
-function combinedGradientKey(exportName: string, binding: TopLevelBinding, types: TypeDeclarations): string | null {
-  const fn = binding.fn!;
-  const declaredKeys = objectTypeKeys(returnType(fn), types);
-  const keyIn = (keys: string[] | null) => (keys?.includes(combinedValueKey) ? combinedGradientKeys.find((key) => keys.includes(key)) : undefined);
-  const declaredKey = keyIn(declaredKeys);
-  if (declaredKey) return declaredKey;
-  if (!hasTag(binding.docHost, tagNames.valueAndGradient) && !isCombinedName(exportName)) return null;
-  return keyIn(returnedObjectKeys(fn)) ?? combinedGradientKeys[0];
+/** Why the signatures rule a pair out, or null when they allow it. */
+function signatureConflict(objective: Callable, derivative: Callable, canBeObjective: (c: Callable) => boolean, shapeOf: (c: Callable) => ReturnShape): string | null {
+  if (!canBeObjective(objective)) {
+    const shape = shapeOf(objective).kind;
+    return `\`${objective.label}\` ${shape === 'vector' ? 'returns a vector' : shape === 'unknown' || shape === 'number' ? 'does not take a point as its first parameter' : 'does not return a number'}, so it cannot be the objective`;
+  }
+  const objectiveType = objective.fn ? firstParameterText(objective.fn) : null;
+  const derivativeType = derivative.fn ? firstParameterText(derivative.fn) : null;
+  if (objectiveType !== null && derivativeType !== null && objectiveType !== derivativeType) {
+    return `\`${objective.label}\` takes \`${objectiveType}\` but \`${derivative.label}\` takes \`${derivativeType}\``;
+  }
+  return null;
+}
+
+/** Result keys of a function returning value and gradient together, or null. */
+function combinedSplit(callable: Callable, shape: ReturnShape): PairMatch['split'] {
+  if (shape.kind === 'valueAndVector') return { value: '0', derivative: '1' };
+  const keys = shape.kind === 'object' ? shape.keys : [];
+  const value = combinedValueKeys.find((key) => keys.includes(key));
+  const derivative = combinedGradientKeys.find((key) => keys.includes(key));
+  if (value && derivative) return { value, derivative };
+  // Tagged or named as combined, with a result we cannot read: the conventional keys.
+  if (hasTag(callable.docHost, tagNames.valueAndGradient) || callable.names.some(isCombinedName)) return { value: value ?? combinedValueKeys[0], derivative: derivative ?? combinedGradientKeys[0] };
+  return null;
+}
+
+function listNames(callables: Callable[]): string {
+  const names = callables.map((c) => `\`${c.label}\``);
+  return names.length <= 1 ? names.join('') : `${names.slice(0, -1).join(', ')} or ${names[names.length - 1]}`;
 }

@@ -8,18 +8,19 @@ import type { SourceSpan } from './types';
 
 export interface ProbeReading {
   probes: number[][];
-  probeExports: string[];
+  /** Names of module-level consts holding probe points (scope keys). */
+  probeKeys: string[];
   tagSpans: SourceSpan[];
   /** From `@dimension N`, if given and readable. */
   declaredDimension: number | null;
   findings: Finding[];
 }
 
-const expectedForm = 'Write a JSON array of finite numbers, e.g. /** @probe [0.5, -1, 2] */, or the name of an exported const that holds one.';
+const expectedForm = 'Write a JSON array of finite numbers, e.g. /** @probe [0.5, -1, 2] */, or the name of a const of this file that holds one.';
 
 /** Reads the probe and dimension tags of every host (objective first, then gradient) and merges them. */
 export function readProbeTags(sourceFile: ts.SourceFile, hosts: ts.Node[], bindings: ModuleBindings): ProbeReading {
-  const reading: ProbeReading = { probes: [], probeExports: [], tagSpans: [], declaredDimension: null, findings: [] };
+  const reading: ProbeReading = { probes: [], probeKeys: [], tagSpans: [], declaredDimension: null, findings: [] };
   for (const host of hosts) {
     for (const tag of readTags(sourceFile, host, tagNames.probe)) {
       reading.tagSpans.push(tag.span);
@@ -54,18 +55,11 @@ function readProbe(tag: TagReading, bindings: ModuleBindings, reading: ProbeRead
 }
 
 function readNamedProbe(name: string, bindings: ModuleBindings, reading: ProbeReading): void {
-  const exported = bindings.byExportName.get(name);
-  if (exported && exported.constValue) {
-    if (!reading.probeExports.includes(name)) reading.probeExports.push(name);
-  } else if (exported) {
-    reading.findings.push(badProbe(`\`@probe ${name}\` names a function; it must name a const holding a point. ${expectedForm}`));
-  } else if (bindings.byLocalName.get(name)?.constValue) {
-    reading.findings.push({
-      code: 'missing-export',
-      severity: 'error',
-      subject: 'probe',
-      message: `\`@probe ${name}\` names a const that is not exported, so the checker cannot read it. Add \`export\` to \`${name}\`.`,
-    });
+  const binding = bindings.byLocalName.get(name);
+  if (binding?.constValue || binding?.kind === 'import') {
+    if (!reading.probeKeys.includes(name)) reading.probeKeys.push(name);
+  } else if (binding) {
+    reading.findings.push(badProbe(`\`@probe ${name}\` names a ${binding.kind}; it must name a const holding a point. ${expectedForm}`));
   } else {
     reading.findings.push(badProbe(`\`@probe ${name}\`: this file has no const named \`${name}\`. ${expectedForm}`));
   }

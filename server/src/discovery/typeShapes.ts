@@ -29,7 +29,7 @@ export function returnType(fn: FunctionNode): ts.TypeNode | undefined {
 const maxAliasDepth = 16;
 
 /** The type with `readonly`, `Readonly<…>`, parentheses and same-file aliases peeled off. */
-function resolve(type: ts.TypeNode | undefined, declarations: TypeDeclarations): ts.TypeNode | ts.InterfaceDeclaration | undefined {
+export function resolveType(type: ts.TypeNode | undefined, declarations: TypeDeclarations): ts.TypeNode | ts.InterfaceDeclaration | undefined {
   let current: ts.TypeNode | undefined = type;
   for (let depth = 0; current && depth < maxAliasDepth; depth++) {
     if (ts.isParenthesizedTypeNode(current)) current = current.type;
@@ -51,7 +51,7 @@ function resolve(type: ts.TypeNode | undefined, declarations: TypeDeclarations):
 
 /** Number of coordinates of a fixed-length tuple type, or null (arrays, rest or optional elements). */
 export function tupleLength(type: ts.TypeNode | undefined, declarations: TypeDeclarations): number | null {
-  const resolved = resolve(type, declarations);
+  const resolved = resolveType(type, declarations);
   if (!resolved || !ts.isTupleTypeNode(resolved) || resolved.elements.length === 0) return null;
   const fixed = resolved.elements.every((element) =>
     ts.isNamedTupleMember(element) ? !element.questionToken && !element.dotDotDotToken : !ts.isOptionalTypeNode(element) && !ts.isRestTypeNode(element),
@@ -60,13 +60,13 @@ export function tupleLength(type: ts.TypeNode | undefined, declarations: TypeDec
 }
 
 export function isFloat64ArrayType(type: ts.TypeNode | undefined, declarations: TypeDeclarations): boolean {
-  const resolved = resolve(type, declarations);
+  const resolved = resolveType(type, declarations);
   return !!resolved && ts.isTypeReferenceNode(resolved) && ts.isIdentifier(resolved.typeName) && resolved.typeName.text === 'Float64Array';
 }
 
 /** Property names of an object type literal or same-file interface, or null for any other type. */
 export function objectTypeKeys(type: ts.TypeNode | undefined, declarations: TypeDeclarations): string[] | null {
-  const resolved = resolve(type, declarations);
+  const resolved = resolveType(type, declarations);
   if (!resolved) return null;
   const members = ts.isInterfaceDeclaration(resolved) ? resolved.members : ts.isTypeLiteralNode(resolved) ? resolved.members : null;
   if (!members) return null;

@@ -1,6 +1,9 @@
 // What discovery finds in one document. Positions come from the text as given
 // (an unsaved buffer works), so the editor can place diagnostics and edits.
-import type { CheckPlan, Finding } from '../engine/types';
+import type { CheckPlan, Finding, TargetKind } from '../engine/types';
+
+/** How a pair was found, for explanations in hovers and docs. */
+export type MatchedBy = 'name' | 'shared-stem' | 'only-candidate' | 'gradientOf-tag' | 'combined';
 
 /** A range in the document: offsets for edits, 0-based line/character for LSP, 1-based line for the CLI. */
 export interface SourceSpan {
@@ -22,7 +25,9 @@ export interface NamedSpan {
   declarationSpan: SourceSpan;
 }
 
+/** One check target: a value function and its derivative, and how to call them. */
 export interface DiscoveredPair {
+  kind: TargetKind;
   objective: NamedSpan & {
     /** Each `@probe` tag's span, for related information and edits. */
     probeTags: SourceSpan[];
@@ -32,9 +37,10 @@ export interface DiscoveredPair {
     /** Expressions of the gradient's `return` statements, for quick-fix edits. */
     returnExpressions: SourceSpan[];
   }) | null;
-  learningRate: (NamedSpan & { value: number; valueSpan: SourceSpan }) | null;
-  /** How the pair was matched, for explanations in hovers and docs. */
-  matchedBy: 'name' | 'gradientOf-tag' | 'combined';
+  learningRate: (NamedSpan & { value: number; valueSpan: SourceSpan; momentum?: { name: string; value: number } }) | null;
+  matchedBy: MatchedBy;
+  /** Where each scope key of the plan is named (host, data, start), for findings about a value that fails at run time. */
+  recipeSpans: Record<string, SourceSpan>;
   /** A `// slopecheck-skip` comment sits directly above the objective: the pair is not checked. */
   skipped: boolean;
   /** Plan without options: the caller merges its settings in. */

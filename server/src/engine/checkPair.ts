@@ -3,6 +3,7 @@ import { emptyReport } from './emptyReport';
 import { formatBound } from './format';
 import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
 import { createRandom } from './random';
+import { probesAroundStart } from './startProbes';
 import { combineSmoothness, probeSmoothness, type ProbeSmoothness } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
 import { defaultCheckOptions, type CheckOptions, type CheckPlan, type PairReport, type Vector } from './types';
@@ -16,7 +17,10 @@ export interface PairFunctions {
   makeVector(values: ArrayLike<number>): Vector;
 }
 
-export type PairPlan = Pick<CheckPlan, 'dimension' | 'learningRate' | 'options'>;
+export type PairPlan = Pick<CheckPlan, 'dimension' | 'learningRate' | 'options'> & {
+  /** The user's starting point, read from their module: probe 1 when no probes are given. */
+  startPoint?: number[] | null;
+};
 
 // Independent seeded streams, so one probe's choices do not shift another's.
 const streams = { probes: 1, noise: 1000, directions: 2000, smoothness: 3000 };
@@ -36,7 +40,7 @@ export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan
     const points = probePoints(probes, plan, options, report);
     if (points !== null) {
       calls = createUserCalls(fns, points[0].length);
-      runChecks(calls, points, plan, options, report);
+      runChecks(calls, points, probes, plan, options, report);
     }
   } catch (err) {
     report.status = 'error';
@@ -51,7 +55,10 @@ export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan
   return report;
 }
 
-/** Given probes, or seeded standard-normal ones when only the dimension is known. */
+/**
+ * Given probes; else the user's start with perturbations around it; else seeded
+ * standard-normal points when only the dimension is known.
+ */
 function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): Float64Array[] | null {
   const bad = (message: string) => {
     report.status = 'error';
@@ -68,6 +75,15 @@ function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, 
     report.dimension = n;
     return probes.map((probe) => Float64Array.from(probe));
   }
+  const random = createRandom(options.seed, streams.probes);
+  const start = plan && plan.startPoint;
+  if (Array.isArray(start) && start.length > 0) {
+    if (typeof plan.dimension === 'number' && start.length !== plan.dimension) {
+      return bad(`the starting point has ${start.length} coordinates but the objective takes ${plan.dimension}`);
+    }
+    report.dimension = start.length;
+    return probesAroundStart(Float64Array.from(start), options.probeCount, random);
+  }
   const n = plan ? plan.dimension : null;
   if (typeof n !== 'number' || !Number.isInteger(n) || n <= 0) {
     report.status = 'error';
@@ -75,7 +91,6 @@ function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, 
     return null;
   }
   report.dimension = n;
-  const random = createRandom(options.seed, streams.probes);
   const points: Float64Array[] = [];
   for (let p = 0; p < Math.max(1, options.probeCount); p++) {
     const point = new Float64Array(n);
@@ -85,7 +100,7 @@ function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, 
   return points;
 }
 
-function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
+function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): void {
   const outcomes: ProbeOutcome[] = [];
   for (let p = 0; p < points.length; p++) {
     const outcome = checkProbe(calls, points[p], p, options, createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p), !outcomes.some((o) => o.mismatch));
@@ -132,11 +147,14 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
     outcome.report.smoothness = estimate;
     if (estimate) perProbe.push(estimate);
   }
-  report.smoothness = combineSmoothness(perProbe);
+  // From the user's own start, the verdict is about where their descent begins: probe 1.
+  // The perturbed probes keep their own estimates in their probe reports.
+  const fromStart = Array.isArray(probes) && probes.length === 0 && Array.isArray(plan.startPoint) && smooth[0]?.context.probeIndex === 0 && smooth[0].report.smoothness;
+  report.smoothness = combineSmoothness(fromStart ? [smooth[0].report.smoothness as ProbeSmoothness] : perProbe);
   if (!report.smoothness) return;
   const declared = plan.learningRate;
   const declaredRuns = [];
-  for (const outcome of smooth) {
+  for (const outcome of fromStart ? [smooth[0]] : smooth) {
     const { x, value, probeIndex } = outcome.context;
     const run = (rate: number, label: 'declared' | 'safe' | 'limit') => descend(calls, x, value, rate, options.descentSteps, label, probeIndex);
     if (declared) {
@@ -147,7 +165,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
     outcome.report.descent.push(run(report.smoothness.safeStep, 'safe'), run(report.smoothness.divergenceStep, 'limit'));
   }
   if (declared) {
-    const review = reviewLearningRate(declared.name, declared.value, report.smoothness, declaredRuns);
+    const review = reviewLearningRate(declared, report.smoothness, declaredRuns);
     report.learningRate = review.verdict;
     report.findings.push(...review.findings);
   }

@@ -2,7 +2,7 @@
 // descent w ← w − α∇f(w): α ≤ 1/L̂ safe, α ≥ 2/L̂ divergent along the steepest
 // curvature (Nocedal & Wright 2006, §3.3; common practice), confirmed by short runs.
 import { formatValue } from './format';
-import type { DescentRun, Finding, LearningRateVerdict, RateStatus, SmoothnessEstimate } from './types';
+import type { DeclaredRate, DescentRun, Finding, LearningRateVerdict, RateStatus, SmoothnessEstimate } from './types';
 import { CheckStopped, type UserCalls } from './userCalls';
 
 export function rateStatus(rate: number, smoothness: SmoothnessEstimate): RateStatus {
@@ -48,12 +48,15 @@ export interface RateReview {
 
 const localNote = 'L̂ is a local estimate from the probes, not a global bound';
 
-export function reviewLearningRate(name: string, rate: number, smoothness: SmoothnessEstimate, declaredRuns: DescentRun[]): RateReview {
+export function reviewLearningRate(declared: DeclaredRate, smoothness: SmoothnessEstimate, declaredRuns: DescentRun[]): RateReview {
+  const { name, value: rate, momentum } = declared;
   const status = rateStatus(rate, smoothness);
   const decreased = declaredRuns.map((run) => run.decreased);
   const findings: Finding[] = [];
   const lipschitz = formatValue(smoothness.lipschitz);
-  const bounds = `1/L̂ = ${formatValue(smoothness.safeStep)}, 2/L̂ = ${formatValue(smoothness.divergenceStep)} with L̂ = ${lipschitz} near the probes; ${localNote}`;
+  // Heavy-ball momentum changes the stable range of α; until that is modelled, say so next to the verdict.
+  const momentumNote = momentum ? `; momentum ${momentum.name} = ${formatValue(momentum.value)} is used with it and is not taken into account` : '';
+  const bounds = `1/L̂ = ${formatValue(smoothness.safeStep)}, 2/L̂ = ${formatValue(smoothness.divergenceStep)} with L̂ = ${lipschitz} near the probes; ${localNote}${momentumNote}`;
   if (status === 'aggressive') {
     findings.push({ code: 'rate-aggressive', severity: 'warning', subject: 'learningRate', message: `learning rate ${name} = ${formatValue(rate)} is above the safe step but below the divergence threshold (${bounds})` });
   } else if (status === 'divergent') {
@@ -71,5 +74,7 @@ export function reviewLearningRate(name: string, rate: number, smoothness: Smoot
       message: `the verdict '${status}' for ${name} = ${formatValue(rate)} is not confirmed: ${disagreeing} of ${decreased.length} short descent runs at that rate ${what} (${bounds})`,
     });
   }
-  return { verdict: { name, value: rate, status, decreased }, findings };
+  const verdict: LearningRateVerdict = { name, value: rate, status, decreased };
+  if (momentum) verdict.momentum = { name: momentum.name, value: momentum.value };
+  return { verdict, findings };
 }

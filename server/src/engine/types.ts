@@ -41,23 +41,50 @@ export const defaultCheckOptions: CheckOptions = {
   descentSteps: 20,
 };
 
-/** What the sandbox is asked to check for one pair. Built by discovery, serialised as JSON. */
+/** What a target checks. Only `gradient` today; Jacobian and Hessian kinds follow. */
+export type TargetKind = 'gradient';
+
+/**
+ * How the sandbox calls one target's functions in the user's realm. Every key below is a
+ * key of the module's scope hook: the source text of a module-level expression (`loss`,
+ * `model`, `train.X`, `[0.5, 1]`) that the bundle exposes to the sandbox (see sandbox/scopeHook.ts).
+ */
+export interface CallRecipe {
+  /** The object whose methods the functions are; null for functions of the module itself. */
+  host: { key: string; construct: boolean } | null;
+  /** The function giving f, or f with its derivative when `split` is set: a scope key, or a method name on the host. */
+  value: string;
+  /** The derivative's scope key or method name; null when `split` takes it from the value function's result. */
+  derivative: string | null;
+  /** Where one result holds both: `{ value: 'loss', derivative: 'grad' }`, or '0' and '1' for `[f, g]`. */
+  split: { value: string; derivative: string } | null;
+  /** Scope keys of the arguments after the point, in order; null leaves that argument to its default. */
+  extraArguments: Array<string | null>;
+}
+
+/** A learning rate found in the user's code, with the momentum coefficient next to it if any. */
+export interface DeclaredRate {
+  name: string;
+  value: number;
+  momentum?: { name: string; value: number };
+}
+
+/** What the sandbox is asked to check for one target. Built by discovery, serialised as JSON. */
 export interface CheckPlan {
-  /** Exported name of the objective f(x) → number. For a combined pair, the combined function. */
-  objective: string;
-  /** Exported name of the gradient ∇f(x) → vector; null for a combined pair. */
-  gradient: string | null;
-  /** Set when one function returns both: `{ [valueKey]: number, [gradientKey]: vector }`. */
-  combined: { valueKey: string; gradientKey: string } | null;
+  kind: TargetKind;
+  /** How the user names the value function, for messages: `loss`, `model.loss`. */
+  label: string;
+  recipe: CallRecipe;
   argumentKind: ArgumentKind;
   /** Literal probe points from `@probe [..]` tags. */
   probes: number[][];
-  /** Exported consts of the module whose values are probe points (`@probe name`). */
-  probeExports: string[];
-  /** Dimension known from a tuple parameter type, used for seeded random probes. */
+  /** Scope keys of consts whose values are probe points (`@probe name`). */
+  probeKeys: string[];
+  /** Scope key of the user's starting point: probe 1, with seeded perturbations around it, when no @probe is given. */
+  start: string | null;
+  /** Dimension known from a tuple parameter type or `@dimension`, used for seeded random probes. */
   dimension: number | null;
-  /** Declared learning rate, if any. */
-  learningRate: { name: string; value: number } | null;
+  learningRate: DeclaredRate | null;
   options: CheckOptions;
 }
 
@@ -81,6 +108,10 @@ export type FindingCode =
   | 'bundle-error'
   | 'syntax-error'
   | 'missing-export'
+  | 'unresolved-target'
+  | 'missing-argument'
+  | 'ambiguous-pair'
+  | 'unpaired-function'
   | 'unknown-dimension'
   | 'bad-probe'
   | 'rate-aggressive'
@@ -88,7 +119,7 @@ export type FindingCode =
   | 'rate-unconfirmed';
 
 /** Which declaration a finding belongs on in the editor. */
-export type FindingSubject = 'objective' | 'gradient' | 'learningRate' | 'probe';
+export type FindingSubject = 'objective' | 'gradient' | 'learningRate' | 'probe' | 'recipe';
 
 export interface Finding {
   code: FindingCode;
@@ -97,6 +128,8 @@ export interface Finding {
   subject: FindingSubject;
   /** 0-based component indices involved (mismatch, non-finite). */
   components?: number[];
+  /** For subject 'recipe': the scope key of the value that could not be used (the host, a data argument, the start). */
+  recipeKey?: string;
   /** Index of the probe the finding was seen at. */
   probeIndex?: number;
   /** Raw stack of a user error, as thrown in the sandbox; the host maps it to the user's line. */
@@ -198,6 +231,8 @@ export interface SmoothnessEstimate {
 export interface LearningRateVerdict {
   name: string;
   value: number;
+  /** The momentum coefficient found next to the rate; reported, not yet part of the verdict. */
+  momentum?: { name: string; value: number };
   status: RateStatus;
   /** Per probe: did f go down over the short run at this rate? */
   decreased: boolean[];

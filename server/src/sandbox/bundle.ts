@@ -1,10 +1,13 @@
 // Bundles one document (an unsaved buffer wins over the file on disk) with its
 // relative imports and workspace packages into CommonJS for the sandbox.
-// Imports of Node built-ins are recorded, left external and make the bundle unrunnable.
+// Imports of Node built-ins are recorded, left external and make the bundle unrunnable,
+// except the two a script guard needs (`url`, `process`), which get inert stand-ins.
 import * as esbuild from 'esbuild';
 import { builtinModules } from 'node:module';
 import * as path from 'node:path';
 import type { Finding } from '../engine/types';
+import { withScopeHook } from './scopeHook';
+import { scriptGuardStandIns } from './standIns';
 
 export interface BundleError {
   message: string;
@@ -33,12 +36,14 @@ export interface Bundle {
 const builtinMarker = 'slopecheck-builtin:';
 
 const builtinNames = new Set(builtinModules);
+const standInNamespace = 'slopecheck-stand-in';
 
 function isBuiltin(specifier: string): boolean {
   return specifier.startsWith('node:') || builtinNames.has(specifier);
 }
 
-export async function bundleDocument(text: string, fileName: string): Promise<Bundle> {
+/** Bundles `text` as `fileName`, with the scope hook for `scopeKeys` (see scopeHook.ts) appended. */
+export async function bundleDocument(text: string, fileName: string, scopeKeys: readonly string[] = []): Promise<Bundle> {
   const absoluteFile = path.resolve(fileName);
   const sourceRoot = path.dirname(absoluteFile);
   const builtinImports = new Set<string>();
@@ -47,15 +52,22 @@ export async function bundleDocument(text: string, fileName: string): Promise<Bu
     setup(build) {
       build.onResolve({ filter: /.*/ }, (args) => {
         if (!isBuiltin(args.path)) return undefined;
+        const standIn = scriptGuardStandIns[args.path.replace(/^node:/, '')];
+        if (standIn !== undefined) return { path: args.path, namespace: standInNamespace };
+
         builtinImports.add(args.path);
         return { errors: [{ text: builtinMarker + args.path }] };
       });
+      build.onLoad({ filter: /.*/, namespace: standInNamespace }, (args) => ({
+        contents: scriptGuardStandIns[args.path.replace(/^node:/, '')],
+        loader: 'js',
+      }));
     },
   };
   const base = { code: '', fileName: absoluteFile, sourceRoot };
   try {
     const result = await esbuild.build({
-      stdin: { contents: text, sourcefile: path.basename(absoluteFile), resolveDir: sourceRoot, loader: loaderFor(absoluteFile) },
+      stdin: { contents: withScopeHook(text, scopeKeys), sourcefile: path.basename(absoluteFile), resolveDir: sourceRoot, loader: loaderFor(absoluteFile) },
       absWorkingDir: sourceRoot,
       bundle: true,
       format: 'cjs',

@@ -6,9 +6,11 @@ import type { PairFunctions } from '../engine/checkPair';
 import type { CheckPlan, Finding, FindingSubject, PairReport } from '../engine/types';
 import { installConsole, takeConsole } from './consoleShim';
 import { plainJson } from './plainJson';
+import { installProcessStandIn } from './processStandIn';
 import { errorReport, internalFinding } from './reports';
+import { scopeHookGlobal } from './scopeHook';
 
-export { installConsole, takeConsole };
+export { installConsole, installProcessStandIn, takeConsole };
 
 // Captured before user code runs, so a module that replaces them cannot garble the report.
 // Reports are written by plainJson, which also ignores an inherited toJSON.
@@ -16,15 +18,20 @@ const stringify = plainJson;
 const parse = JSON.parse;
 const hasOwn = Object.hasOwn;
 const now = Date.now;
+const keysOf = Object.keys;
+const getPrototypeOf = Object.getPrototypeOf;
+
+/** The module's scope hook: scope key → thunk reading that module-level value. */
+export type ModuleScope = Record<string, () => unknown>;
 
 interface LoadedModule {
   exports: unknown;
 }
-let loaded: LoadedModule | null = null;
+let loadedScope: ModuleScope | null = null;
 
 /**
- * Evaluates the user's CommonJS bundle through its wrapper function.
- * Returns 'null' on success, else the JSON of an error report.
+ * Evaluates the user's CommonJS bundle through its wrapper function and takes the scope
+ * hook the bundle's last lines set. Returns 'null' on success, else the JSON of an error report.
  */
 export function loadModule(factory: (exports: unknown, module: LoadedModule, require: (name: string) => never) => void): string {
   const module: LoadedModule = { exports: {} };
@@ -33,7 +40,8 @@ export function loadModule(factory: (exports: unknown, module: LoadedModule, req
   };
   try {
     factory.call(module.exports, module.exports, module, require);
-    loaded = module;
+    const scope = (globalThis as Record<string, unknown>)[scopeHookGlobal];
+    loadedScope = typeof scope === 'object' && scope !== null ? (scope as ModuleScope) : {};
     return 'null';
   } catch (thrown) {
     return stringify(errorReport([thrownFinding(thrown, 'objective', 'Loading the module threw')]));
@@ -42,16 +50,16 @@ export function loadModule(factory: (exports: unknown, module: LoadedModule, req
 
 /** Runs the plan against the module loaded by `loadModule`. */
 export function runLoaded(planJson: string): string {
-  if (!loaded) return stringify(errorReport([internalFinding('the module was not loaded')]));
-  return run(loaded.exports, planJson);
+  if (!loadedScope) return stringify(errorReport([internalFinding('the module was not loaded')]));
+  return run(loadedScope, planJson);
 }
 
-/** Resolves the plan's exports on `moduleExports` and checks the pair; returns the JSON of a PairReport. */
-export function run(moduleExports: unknown, planJson: string, check: typeof checkPair = checkPair): string {
+/** Resolves the plan's call recipe in `scope` and checks the target; returns the JSON of a PairReport. */
+export function run(scope: ModuleScope, planJson: string, check: typeof checkPair = checkPair): string {
   const started = now();
   let report: PairReport;
   try {
-    report = runPlan(moduleExports, parse(planJson) as CheckPlan, check);
+    report = runPlan(scope, parse(planJson) as CheckPlan, check);
   } catch (thrown) {
     report = errorReport([thrownFinding(thrown, 'objective', 'The check failed unexpectedly')], now() - started);
   }
@@ -62,18 +70,28 @@ export function run(moduleExports: unknown, planJson: string, check: typeof chec
   }
 }
 
-function runPlan(moduleExports: unknown, plan: CheckPlan, check: typeof checkPair): PairReport {
+/** A value of the user's module, or the finding that says why it could not be had. */
+type Read = { value: unknown } | { finding: Finding };
+
+function runPlan(scope: ModuleScope, plan: CheckPlan, check: typeof checkPair): PairReport {
   const started = now();
-  const functions = resolveFunctions(moduleExports, plan);
+  const read = (key: string): Read => readScope(scope, key);
+  const functions = resolveFunctions(read, plan);
   if (isFailure(functions)) return errorReport(functions.findings, now() - started);
   const probeFindings: Finding[] = [];
   const probes = plan.probes.map((point) => [...point]);
-  for (const name of plan.probeExports) {
-    const point = readProbe(moduleExports, name);
+  for (const key of plan.probeKeys) {
+    const point = readPoint(read(key), key, 'probe');
     if (Array.isArray(point)) probes.push(point);
     else probeFindings.push(point);
   }
-  const report = check(functions, probes, plan, now);
+  let startPoint: number[] | null = null;
+  if (plan.start !== null && probes.length === 0) {
+    const point = readPoint(read(plan.start), plan.start, 'start');
+    if (!Array.isArray(point)) return errorReport([point], now() - started);
+    startPoint = point;
+  }
+  const report = check(functions, probes, { dimension: plan.dimension, learningRate: plan.learningRate, options: plan.options, startPoint }, now);
   report.findings = [...probeFindings, ...report.findings];
   return report;
 }
@@ -85,23 +103,96 @@ function isFailure(resolved: Resolved): resolved is { findings: Finding[] } {
   return hasOwn(resolved, 'findings');
 }
 
-function resolveFunctions(moduleExports: unknown, plan: CheckPlan): Resolved {
+/** Turns the call recipe into the two functions the engine calls with a point. */
+function resolveFunctions(read: (key: string) => Read, plan: CheckPlan): Resolved {
+  const { recipe } = plan;
   const makeVector: PairFunctions['makeVector'] =
     plan.argumentKind === 'float64array' ? (values) => new Float64Array(values) : copyToArray;
-  const objective = readFunction(moduleExports, plan.objective, 'objective');
-  if (typeof objective !== 'function') return { findings: [objective] };
-  if (plan.combined) {
-    const { valueKey, gradientKey } = plan.combined;
+  const extra: unknown[] = [];
+  for (const key of recipe.extraArguments) {
+    if (key === null) {
+      extra.push(undefined);
+      continue;
+    }
+    const argument = read(key);
+    if ('finding' in argument) return { findings: [argument.finding] };
+    extra.push(argument.value);
+  }
+  let host: unknown = null;
+  if (recipe.host) {
+    const made = resolveHost(read, recipe.host);
+    if ('finding' in made) return { findings: [made.finding] };
+    host = made.value;
+  }
+  const functionOf = (name: string, subject: FindingSubject): ((x: unknown) => unknown) | Finding => {
+    const found = host === null ? read(name) : readMember(host, name, recipe.host!.key);
+    if ('finding' in found) return { ...found.finding, subject };
+    if (typeof found.value === 'function') {
+      const fn = found.value as (...args: unknown[]) => unknown;
+      return (x) => fn.call(host, x, ...extra);
+    }
+    const where = host === null ? `'${name}'` : `'${recipe.host!.key}.${name}'`;
+    return { code: 'unresolved-target', severity: 'error', subject, message: `${where} is ${describeShape(found.value)}, not a function.` };
+  };
+  const value = functionOf(recipe.value, 'objective');
+  if (typeof value !== 'function') return { findings: [value] };
+  if (recipe.split) {
+    const split = recipe.split;
     return {
-      objective: (x) => pick(objective(x), valueKey),
-      gradient: (x) => pick(objective(x), gradientKey),
+      objective: (x) => pick(value(x), split.value),
+      gradient: (x) => pick(value(x), split.derivative),
       makeVector,
     };
   }
-  if (plan.gradient === null) return { findings: [internalFinding('the plan names no gradient')] };
-  const gradient = readFunction(moduleExports, plan.gradient, 'gradient');
-  if (typeof gradient !== 'function') return { findings: [gradient] };
-  return { objective: (x) => objective(x), gradient: (x) => gradient(x), makeVector };
+  if (recipe.derivative === null) return { findings: [internalFinding('the plan names no derivative')] };
+  const derivative = functionOf(recipe.derivative, 'gradient');
+  if (typeof derivative !== 'function') return { findings: [derivative] };
+  return { objective: value, gradient: derivative, makeVector };
+}
+
+/** The host object: a module-level value, or a new instance of a class that takes no arguments. */
+function resolveHost(read: (key: string) => Read, host: NonNullable<CheckPlan['recipe']['host']>): Read {
+  const found = read(host.key);
+  if ('finding' in found || !host.construct) {
+    if ('value' in found && (found.value === null || (typeof found.value !== 'object' && typeof found.value !== 'function'))) {
+      return { finding: recipeFinding(host.key, `'${host.key}' is ${describeShape(found.value)}, not an object with methods.`) };
+    }
+    return found;
+  }
+  if (typeof found.value !== 'function') return { finding: recipeFinding(host.key, `'${host.key}' is ${describeShape(found.value)}, not a class.`) };
+  try {
+    return { value: new (found.value as new () => unknown)() };
+  } catch (thrown) {
+    return { finding: { ...thrownFinding(thrown, 'recipe', `Constructing 'new ${host.key}()' threw`), recipeKey: host.key } };
+  }
+}
+
+/** A value of the module through its scope hook; a throw (TDZ, a getter, a missing name) becomes a finding. */
+function readScope(scope: ModuleScope, key: string): Read {
+  if (!hasOwn(scope, key) || typeof scope[key] !== 'function') {
+    return { finding: recipeFinding(key, `'${key}' could not be reached in the module's scope.`) };
+  }
+  try {
+    return { value: scope[key]() };
+  } catch (thrown) {
+    return { finding: { ...thrownFinding(thrown, 'recipe', `Reading '${key}' threw`), recipeKey: key } };
+  }
+}
+
+function readMember(host: unknown, name: string, hostKey: string): Read {
+  try {
+    const value = (host as Record<string, unknown>)[name];
+    if (value === undefined) {
+      return { finding: recipeFinding(hostKey, `'${hostKey}' has no '${name}': it is ${describeShape(host)}.`) };
+    }
+    return { value };
+  } catch (thrown) {
+    return { finding: { ...thrownFinding(thrown, 'recipe', `Reading '${hostKey}.${name}' threw`), recipeKey: hostKey } };
+  }
+}
+
+function recipeFinding(key: string, message: string): Finding {
+  return { code: 'unresolved-target', severity: 'error', subject: 'recipe', recipeKey: key, message };
 }
 
 /** One half of a combined result; anything that is not a plain result object goes to the engine as is. */
@@ -111,39 +202,44 @@ function pick(result: unknown, key: string): unknown {
   return (result as Record<string, unknown>)[key];
 }
 
-function readExport(moduleExports: unknown, name: string): { value: unknown } | { thrown: unknown } {
-  try {
-    return { value: (moduleExports as Record<string, unknown>)[name] };
-  } catch (thrown) {
-    return { thrown };
-  }
-}
-
-function readFunction(moduleExports: unknown, name: string, subject: FindingSubject): ((x: unknown) => unknown) | Finding {
-  const read = readExport(moduleExports, name);
-  if ('thrown' in read) return thrownFinding(read.thrown, subject, `Reading the export '${name}' threw`);
-  if (typeof read.value === 'function') return read.value as (x: unknown) => unknown;
-  const found = read.value === undefined ? 'is not exported' : `is exported as ${describeType(read.value)}, not a function`;
-  return { code: 'missing-export', severity: 'error', subject, message: `'${name}' ${found}.` };
-}
-
-function readProbe(moduleExports: unknown, name: string): number[] | Finding {
-  const badProbe = (why: string): Finding => ({ code: 'bad-probe', severity: 'warning', subject: 'probe', message: `Probe '${name}' ${why}; it was skipped.` });
-  const read = readExport(moduleExports, name);
-  if ('thrown' in read) return thrownFinding(read.thrown, 'probe', `Reading the probe '${name}' threw`);
+/**
+ * A point from the module, or the finding that says what it is instead: a bad probe const is
+ * skipped with a warning; a bad start leaves nothing to check, so it is an error on its line.
+ */
+function readPoint(read: Read, key: string, role: 'probe' | 'start'): number[] | Finding {
+  const bad = (why: string): Finding =>
+    role === 'start'
+      ? { code: 'unresolved-target', severity: 'error', subject: 'recipe', recipeKey: key, message: `The starting point '${key}' ${why}.` }
+      : { code: 'bad-probe', severity: 'warning', subject: 'probe', message: `Probe '${key}' ${why}; it was skipped.` };
+  if ('finding' in read) return role === 'start' ? read.finding : bad(read.finding.message.replace(/^'[^']*' /, ''));
   const value = read.value;
-  if (value === undefined) return badProbe('is not exported');
-  if (!Array.isArray(value) && !(value instanceof Float64Array)) return badProbe(`is ${describeType(value)}, not a number[] or Float64Array`);
+  if (!Array.isArray(value) && !(value instanceof Float64Array) && !(value instanceof Float32Array)) return bad(`is ${describeShape(value)}, not a number[] or Float64Array`);
   const point = Array.from(value as ArrayLike<unknown>);
-  if (point.length === 0) return badProbe('is empty');
-  if (!point.every((x) => typeof x === 'number' && Number.isFinite(x))) return badProbe('holds a value that is not a finite number');
+  if (point.length === 0) return bad('is empty');
+  if (!point.every((x) => typeof x === 'number' && Number.isFinite(x))) return bad('holds a value that is not a finite number');
   return point as number[];
 }
 
-function describeType(value: unknown): string {
-  if (value === null) return 'null';
-  if (Array.isArray(value)) return 'an array';
-  return `a ${typeof value}`;
+/** What a value is, for messages: `an array of 20 arrays`, `an object with keys X, y`, `a number`. */
+export function describeShape(value: unknown): string {
+  try {
+    if (value === null) return 'null';
+    if (value === undefined) return 'undefined';
+    if (Array.isArray(value)) {
+      const first = value.length > 0 ? describeShape(value[0]).replace(/^an? /, '') : '';
+      return value.length === 0 ? 'an empty array' : `an array of ${value.length} ${first}${value.length === 1 ? '' : 's'}`.replace(/ss$/, 's');
+    }
+    if (value instanceof Float64Array || value instanceof Float32Array) return `a ${value instanceof Float64Array ? 'Float64Array' : 'Float32Array'} of length ${value.length}`;
+    if (typeof value === 'function') return 'a function';
+    if (typeof value === 'object') {
+      const keys = keysOf(value);
+      const kind = getPrototypeOf(value) === Object.prototype || getPrototypeOf(value) === null ? 'an object' : `an instance of ${String((value as { constructor?: { name?: unknown } }).constructor?.name ?? 'a class')}`;
+      return keys.length === 0 ? `${kind} with no own keys` : `${kind} with keys ${keys.slice(0, 8).join(', ')}${keys.length > 8 ? ', …' : ''}`;
+    }
+    return `a ${typeof value}`;
+  } catch {
+    return 'a value that cannot be described';
+  }
 }
 
 /** A finding for a value thrown by user code, keeping its stack for the host to map to a line. */

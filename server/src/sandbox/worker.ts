@@ -29,6 +29,7 @@ const prepareScript = new vm.Script(
     const runner = Object.freeze(__slopecheckRunner);
     Object.defineProperty(globalThis, '__slopecheckRunner', { value: runner, writable: false, configurable: false });
     runner.installConsole();
+    runner.installProcessStandIn();
   })();`,
   { filename: 'slopecheck-prepare.js' },
 );

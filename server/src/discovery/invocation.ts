@@ -1,0 +1,181 @@
+// How to call a pair the way the file itself does: the values of the arguments after the
+// point (a `@data` tag, a call in the file whose other arguments are module-level values,
+// or default parameter values), and the user's own starting point (a const named like a
+// start, or the point the file hands to its training loop or optimizer).
+import * as ts from 'typescript';
+import type { Finding } from '../engine/types';
+import type { Callable } from './callables';
+import { isStartName, tagNames } from './conventions';
+import { unwrapParentheses, type FunctionNode, type ModuleBindings } from './exports';
+import type { PairMatch } from './pairing';
+import { callsOf, enclosingFunction, localInitializer, moduleLevelText, refersTo } from './references';
+import { spanOfNode } from './spans';
+import { readTags } from './tags';
+import type { SourceSpan } from './types';
+
+export interface Invocation {
+  /** Scope keys of the arguments after the point; null leaves one to its default. */
+  extraArguments: Array<string | null>;
+  /** Scope key of the start point, or null. */
+  start: string | null;
+  /** Where each scope key was named, so a value that fails at run time is reported there. */
+  keySpans: Record<string, SourceSpan>;
+  findings: Finding[];
+}
+
+/** The functions of a pair, in the order their calls are searched. */
+function pairFunctions(match: PairMatch): Callable[] {
+  return match.gradient ? [match.objective, match.gradient] : [match.objective];
+}
+
+/** `dimension`: the number of coordinates the signature states, if it does; a start of another length is not this pair's. */
+export function readInvocation(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, dimension: number | null): Invocation {
+  const invocation: Invocation = { extraArguments: [], start: null, keySpans: {}, findings: [] };
+  readExtraArguments(sourceFile, bindings, match, invocation);
+  readStart(sourceFile, bindings, match, dimension, invocation);
+  return invocation;
+}
+
+function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, invocation: Invocation): void {
+  // The local function's parameters tell what is needed; an imported objective shows none.
+  const fn = pairFunctions(match).map((c) => c.fn).find((f): f is FunctionNode => f !== null);
+  if (!fn) return;
+  const extra = fn.parameters.slice(1).filter((p) => !p.dotDotDotToken);
+  if (extra.length === 0) return;
+  const optional = (index: number) => !!(extra[index].initializer || extra[index].questionToken);
+
+  // 1. `@data a, b` on either function.
+  for (const callable of pairFunctions(match)) {
+    const tag = readTags(sourceFile, callable.docHost, tagNames.data)[0];
+    if (!tag) continue;
+    const names = tag.text.split(/[\s,]+/).filter((word) => word !== '');
+    const unknown = names.find((name) => !bindings.byLocalName.has(name.split('.')[0]));
+    if (unknown !== undefined || names.length === 0) {
+      invocation.findings.push({ code: 'missing-argument', severity: 'error', subject: 'objective', message: `\`@data ${tag.text}\` on \`${callable.label}\` must name module-level values of this file${unknown ? `; there is no \`${unknown.split('.')[0]}\`` : ''}, e.g. /** @data trainX, trainY */.` });
+      return;
+    }
+    invocation.extraArguments = names;
+    for (const name of names) invocation.keySpans[name] = tag.span;
+    return;
+  }
+
+  // 2. A call in the file whose other arguments are module-level values (a training loop, a test).
+  for (const callable of pairFunctions(match)) {
+    for (const call of callsOf(sourceFile, match.group, callable)) {
+      const given = call.arguments.slice(1, 1 + extra.length);
+      if (given.some(ts.isSpreadElement)) continue;
+      const texts = given.map((argument) => moduleLevelText(argument, bindings));
+      if (texts.some((text) => text === null)) continue;
+      if (extra.some((_, index) => index >= texts.length && !optional(index))) continue;
+      invocation.extraArguments = texts as string[];
+      given.forEach((argument, index) => (invocation.keySpans[texts[index]!] = spanOfNode(sourceFile, argument)));
+      return;
+    }
+  }
+
+  // 3. Default values: the call leaves them out.
+  if (extra.every((_, index) => optional(index))) return;
+  const missing = extra.filter((_, index) => !optional(index)).map((p) => `\`${p.name.getText()}\``);
+  invocation.findings.push({
+    code: 'missing-argument',
+    severity: 'info',
+    subject: 'objective',
+    message:
+      `\`${match.objective.label}\` takes ${missing.join(', ')} after the point, and Slopecheck found no value for ${missing.length === 1 ? 'it' : 'them'}, so the pair was not checked. ` +
+      `Name module-level values with a tag, e.g. /** @data ${extra.map((p) => p.name.getText()).join(', ')} */, call it once in this file with module-level values (as a training loop does), or give the parameter a default value.`,
+  });
+}
+
+/** A point written out: `[0.5, 1]`, `new Float64Array([…])`, `new Array(3).fill(0)`, `x0.slice()`, or a const holding one. */
+function looksLikePoint(expression: ts.Expression, bindings: ModuleBindings, depth = 0): boolean {
+  const node = unwrapParentheses(expression);
+  if (ts.isAsExpression(node) || ts.isSatisfiesExpression(node)) return looksLikePoint(node.expression, bindings, depth);
+  if (ts.isArrayLiteralExpression(node)) return node.elements.length > 0 && node.elements.every((e) => !ts.isArrayLiteralExpression(unwrapParentheses(e)) && !ts.isObjectLiteralExpression(unwrapParentheses(e)));
+  if (ts.isNewExpression(node) && ts.isIdentifier(node.expression)) return ['Float64Array', 'Float32Array', 'Array'].includes(node.expression.text);
+  if (ts.isCallExpression(node) && ts.isPropertyAccessExpression(node.expression)) {
+    const method = node.expression.name.text;
+    if (['from', 'of'].includes(method)) return true;
+    if (['slice', 'fill', 'map', 'concat'].includes(method)) return looksLikePoint(node.expression.expression, bindings, depth);
+  }
+  if (ts.isIdentifier(node) && depth < 2) {
+    const value = bindings.byLocalName.get(node.text)?.constValue;
+    return !!value && looksLikePoint(value, bindings, depth + 1);
+  }
+  return false;
+}
+
+/** Number of coordinates when the text says it (`[1, 2, 3]`, `new Float64Array([…])`), else null. */
+function staticLength(expression: ts.Expression): number | null {
+  const node = unwrapParentheses(expression);
+  if (ts.isArrayLiteralExpression(node) && !node.elements.some(ts.isSpreadElement)) return node.elements.length;
+  if ((ts.isNewExpression(node) || ts.isCallExpression(node)) && node.arguments?.length === 1) {
+    const argument = unwrapParentheses(node.arguments[0]);
+    if (ts.isArrayLiteralExpression(argument)) return staticLength(argument);
+  }
+  return null;
+}
+
+function readStart(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, dimension: number | null, invocation: Invocation): void {
+  const fits = (expression: ts.Expression) => dimension === null || staticLength(expression) === null || staticLength(expression) === dimension;
+  const linked = linkedStarts(sourceFile, bindings, match);
+
+  // 1. A module-level const named like a start (`x0`, `w0`, `initialGuess`, `startPose`).
+  const named = [...bindings.byLocalName.values()].filter((b) => b.constValue && isStartName(b.localName) && looksLikePoint(b.constValue, bindings) && fits(b.constValue));
+  const chosen = named.length === 1 ? named[0] : named.find((b) => linked.some((l) => l.text === b.localName || new RegExp(`\\b${b.localName}\\b`).test(l.text)));
+  if (chosen) {
+    invocation.start = chosen.localName;
+    invocation.keySpans[chosen.localName] = spanOfNode(sourceFile, chosen.nameNode);
+    return;
+  }
+  // 2. The point the file passes to its optimizer or starts its training loop from.
+  const first = linked[0];
+  if (first) {
+    invocation.start = first.text;
+    invocation.keySpans[first.text] = spanOfNode(sourceFile, first.node);
+  }
+}
+
+/**
+ * Points the file starts this pair from, in document order: point-like arguments of a call
+ * that is handed the pair's functions (`minimize(loss, lossGrad, [1, 1])`), and the
+ * initial value of the point a training loop passes to them (`let w = x0.slice()`).
+ */
+function linkedStarts(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch): Array<{ text: string; node: ts.Node }> {
+  const found: Array<{ text: string; node: ts.Node }> = [];
+  const add = (expression: ts.Expression) => {
+    if (!looksLikePoint(expression, bindings)) return;
+    const text = moduleLevelText(expression, bindings);
+    if (text !== null && !found.some((f) => f.text === text)) found.push({ text, node: expression });
+  };
+  const functions = pairFunctions(match);
+  const mentionsPair = (argument: ts.Expression): boolean => {
+    let hit = false;
+    const visit = (node: ts.Node): void => {
+      if (hit) return;
+      if (ts.isExpression(node) && functions.some((c) => refersTo(node, match.group, c))) hit = true;
+      else if (match.group.host && ts.isIdentifier(node) && node.text === match.group.host.key) hit = true;
+      else ts.forEachChild(node, visit);
+    };
+    visit(argument);
+    return hit;
+  };
+  const visit = (node: ts.Node): void => {
+    if (ts.isCallExpression(node)) {
+      const direct = functions.some((c) => refersTo(node.expression, match.group, c));
+      if (direct) {
+        // A training loop: the point's own initial value in the function around the call.
+        const point = node.arguments[0] && unwrapParentheses(node.arguments[0]);
+        const fn = enclosingFunction(node);
+        if (point && ts.isIdentifier(point) && fn) {
+          const initial = localInitializer(fn, point.text);
+          if (initial) add(initial);
+        }
+      } else if (node.arguments.some(mentionsPair)) {
+        for (const argument of node.arguments) if (!mentionsPair(argument)) add(argument);
+      }
+    }
+    ts.forEachChild(node, visit);
+  };
+  visit(sourceFile);
+  return found;
+}

@@ -1,0 +1,29 @@
+// The scope hook: a few lines appended to the user's module before bundling, through which
+// the sandbox reaches what a check plan names — module-level values whether exported or not,
+// imports, members (`train.X`) and start expressions. Each key is the source text of a
+// module-level expression; its value is a thunk, so nothing is evaluated until a check asks.
+import type { CheckPlan } from '../engine/types';
+
+/** The global the appended code sets in the sandbox's realm; the runner takes it after loading. */
+export const scopeHookGlobal = '__slopecheckScope';
+
+/** Every scope key a plan reads. */
+export function scopeKeysOf(plan: Pick<CheckPlan, 'recipe' | 'probeKeys' | 'start'>): string[] {
+  const { recipe } = plan;
+  const keys = recipe.host ? [recipe.host.key] : [recipe.value, ...(recipe.derivative === null ? [] : [recipe.derivative])];
+  for (const argument of recipe.extraArguments) if (argument !== null) keys.push(argument);
+  keys.push(...plan.probeKeys);
+  if (plan.start !== null) keys.push(plan.start);
+  return [...new Set(keys)];
+}
+
+/**
+ * The module's text with the hook appended on lines of its own after the last line, so
+ * source positions of the user's code do not move. A key that names nothing fails only
+ * when its thunk is called, as a ReferenceError the runner reports.
+ */
+export function withScopeHook(text: string, keys: readonly string[]): string {
+  if (keys.length === 0) return text;
+  const entries = [...new Set(keys)].map((key) => `${JSON.stringify(key)}: () => (${key})`);
+  return `${text}\n;globalThis.${scopeHookGlobal} = {\n${entries.join(',\n')}\n};\n`;
+}
