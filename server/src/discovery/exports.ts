@@ -83,6 +83,11 @@ export function collectBindings(sourceFile: ts.SourceFile): ModuleBindings {
       }
     } else if (ts.isExpressionStatement(statement)) {
       exportPairs.push(...commonJsExports(statement.expression));
+      const assigned = commonJsMember(statement);
+      if (assigned) {
+        add(assigned);
+        exportPairs.push({ exportName: assigned.nameNode.text, localName: assigned.localName });
+      }
     }
   }
 
@@ -130,6 +135,23 @@ function commonJsExports(expression: ts.Expression): Array<{ exportName: string;
     return [{ exportName: target.name.text, localName: value.text }];
   }
   return [];
+}
+
+/**
+ * `exports.loss = function (w) {…}`, `module.exports.x0 = [1, 2]`: a value with no local name.
+ * Its "local name" is the member expression itself, which is how the scope hook reaches it;
+ * it is exported under the property name.
+ */
+function commonJsMember(statement: ts.ExpressionStatement): TopLevelBinding | null {
+  const expression = statement.expression;
+  if (!ts.isBinaryExpression(expression) || expression.operatorToken.kind !== ts.SyntaxKind.EqualsToken) return null;
+  const target = expression.left;
+  const value = unwrapParentheses(expression.right);
+  if (!ts.isPropertyAccessExpression(target) || ts.isIdentifier(value)) return null;
+  const owner = target.expression.getText();
+  if (owner !== 'exports' && owner !== 'module.exports') return null;
+  const fn = ts.isArrowFunction(value) || ts.isFunctionExpression(value) ? value : null;
+  return { localName: target.getText(), nameNode: target.name as ts.Identifier, statement, docHost: statement, fn, constValue: fn ? null : expression.right, kind: fn ? 'function' : 'const' };
 }
 
 function hasExportKeyword(statement: ts.Statement): boolean {

@@ -120,7 +120,8 @@ function readStart(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: P
   const linked = linkedStarts(sourceFile, bindings, match);
 
   // 1. A module-level const named like a start (`x0`, `w0`, `initialGuess`, `startPose`).
-  const named = [...bindings.byLocalName.values()].filter((b) => b.constValue && isStartName(b.localName) && looksLikePoint(b.constValue, bindings) && fits(b.constValue));
+  // `exports.x0 = […]` goes by its property name.
+  const named = [...bindings.byLocalName.values()].filter((b) => b.constValue && isStartName(b.nameNode.text) && looksLikePoint(b.constValue, bindings) && fits(b.constValue));
   const chosen = named.length === 1 ? named[0] : named.find((b) => linked.some((l) => l.text === b.localName || new RegExp(`\\b${b.localName}\\b`).test(l.text)));
   if (chosen) {
     invocation.start = chosen.localName;
@@ -169,6 +170,10 @@ function linkedStarts(sourceFile: ts.SourceFile, bindings: ModuleBindings, match
         if (point && ts.isIdentifier(point) && fn) {
           const initial = localInitializer(fn, point.text);
           if (initial) add(initial);
+          // `function fit(start) { let w = start.slice(); … }` called as `fit([5.5, 20])`: the caller's point.
+          const source = initial ? copiedFrom(initial) : point;
+          const index = source ? fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === source.text) : -1;
+          if (index >= 0) for (const call of callsOfFunction(sourceFile, fn)) if (call.arguments[index]) add(call.arguments[index]);
         }
       } else if (node.arguments.some(mentionsPair)) {
         for (const argument of node.arguments) if (!mentionsPair(argument)) add(argument);
@@ -178,4 +183,31 @@ function linkedStarts(sourceFile: ts.SourceFile, bindings: ModuleBindings, match
   };
   visit(sourceFile);
   return found;
+}
+
+/** The name a point is copied from: `start.slice()`, `[...start]`, `Array.from(start)`, `Float64Array.from(start)`, `start`. */
+function copiedFrom(expression: ts.Expression): ts.Identifier | undefined {
+  const node = unwrapParentheses(expression);
+  if (ts.isIdentifier(node)) return node;
+  if (ts.isArrayLiteralExpression(node) && node.elements.length === 1 && ts.isSpreadElement(node.elements[0])) return copiedFrom(node.elements[0].expression);
+  if (ts.isCallExpression(node) && ts.isPropertyAccessExpression(node.expression)) {
+    const method = node.expression.name.text;
+    if (['slice', 'concat', 'map'].includes(method)) return copiedFrom(node.expression.expression);
+    if (method === 'from' && node.arguments.length >= 1) return copiedFrom(node.arguments[0]);
+  }
+  if (ts.isNewExpression(node) && node.arguments?.length === 1) return copiedFrom(node.arguments[0]);
+  return undefined;
+}
+
+/** Calls, anywhere in the file, of a function declared by name (`function fit`, `const fit = (…) =>`). */
+function callsOfFunction(sourceFile: ts.SourceFile, fn: ts.SignatureDeclaration): ts.CallExpression[] {
+  const name = ts.isFunctionDeclaration(fn) ? fn.name?.text : ts.isVariableDeclaration(fn.parent) && ts.isIdentifier(fn.parent.name) ? fn.parent.name.text : undefined;
+  if (name === undefined) return [];
+  const calls: ts.CallExpression[] = [];
+  const visit = (node: ts.Node): void => {
+    if (ts.isCallExpression(node) && ts.isIdentifier(node.expression) && node.expression.text === name) calls.push(node);
+    ts.forEachChild(node, visit);
+  };
+  visit(sourceFile);
+  return calls;
 }

@@ -71,54 +71,63 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
   }
 
   // 2. Names, confirmed by signature: the derivative returns a vector (or we cannot tell), the objective a number.
-  const proposals: Proposal[] = [];
+  //    Names that tie the two come first; a generic `gradient` then pairs with the only objective-like function left.
   const rejected = new Map<Callable, string>();
-  for (const derivative of group.callables) {
-    if (used.has(derivative) || !canBeDerivative(derivative)) continue;
-    const byNames: Array<{ objective: Callable; rank: NameRank | 3 }> = derivative.names.flatMap((alias) => objectiveNamesFor(alias)).flatMap(({ name, rank }) => {
+  const ambiguous = new Set<Callable>();
+  const pairByNames = (propose: (derivative: Callable) => Array<{ objective: Callable; rank: NameRank | 3 }>) => {
+    const proposals: Proposal[] = [];
+    for (const derivative of group.callables) {
+      if (used.has(derivative) || ambiguous.has(derivative) || !canBeDerivative(derivative)) continue;
+      for (const { objective, rank } of propose(derivative)) {
+        if (used.has(objective)) continue;
+        const why = signatureConflict(objective, derivative, canBeObjective, shapeOf);
+        if (why) rejected.set(derivative, why);
+        // A weak link by name needs the signatures to say something, not merely not to disagree.
+        else if (rank === 1 || shapeOf(objective).kind === 'number' || shapeOf(derivative).kind === 'vector') proposals.push({ derivative, objective, rank });
+      }
+    }
+    const best = new Map<Callable, Proposal[]>();
+    for (const proposal of proposals) {
+      const current = best.get(proposal.derivative);
+      if (!current || proposal.rank < current[0].rank) best.set(proposal.derivative, [proposal]);
+      else if (proposal.rank === current[0].rank && !current.some((p) => p.objective === proposal.objective)) current.push(proposal);
+    }
+    const claims = new Map<Callable, Proposal[]>();
+    for (const [derivative, options] of best) {
+      if (options.length > 1) {
+        ambiguous.add(derivative);
+        note('ambiguous-pair', derivative.nameNode, `\`${derivative.label}\` could be the gradient of ${listNames(options.map((o) => o.objective))}; it was not checked. Name its objective with a tag, e.g. /** @gradientOf ${options[0].objective.name} */.`);
+        continue;
+      }
+      const claim = claims.get(options[0].objective) ?? [];
+      claim.push(options[0]);
+      claims.set(options[0].objective, claim);
+    }
+    for (const [objective, claim] of claims) {
+      const strongest = Math.min(...claim.map((p) => p.rank));
+      const winners = claim.filter((p) => p.rank === strongest);
+      if (winners.length > 1) {
+        note('ambiguous-pair', objective.nameNode, `\`${objective.label}\` has more than one candidate gradient: ${listNames(winners.map((w) => w.derivative))}; none was checked. Tag the right one, e.g. /** @gradientOf ${objective.name} */ above \`${winners[0].derivative.name}\`.`);
+        winners.forEach((w) => ambiguous.add(w.derivative));
+        continue;
+      }
+      const { derivative, rank } = winners[0];
+      used.add(objective);
+      used.add(derivative);
+      matches.push({ group, objective, gradient: derivative, split: null, matchedBy: rank === 1 ? 'name' : rank === 2 ? 'shared-stem' : 'only-candidate', findings: [] });
+    }
+  };
+  pairByNames((derivative) =>
+    derivative.names.flatMap((alias) => objectiveNamesFor(alias)).flatMap(({ name, rank }) => {
       const objective = byName(name);
       return objective && objective !== derivative ? [{ objective, rank }] : [];
-    });
-    const named = byNames.length === 0 && derivative.names.some(isGenericDerivativeName)
-      ? group.callables.filter((c) => c !== derivative && c.names.some(isObjectiveLikeName)).map((objective) => ({ objective, rank: 3 as const }))
-      : byNames;
-    for (const { objective, rank } of named) {
-      if (used.has(objective)) continue;
-      const why = signatureConflict(objective, derivative, canBeObjective, shapeOf);
-      if (why) rejected.set(derivative, why);
-      // A weak link by name needs the signatures to say something, not merely not to disagree.
-      else if (rank === 1 || shapeOf(objective).kind === 'number' || shapeOf(derivative).kind === 'vector') proposals.push({ derivative, objective, rank });
-    }
-  }
-  const best = new Map<Callable, Proposal[]>();
-  for (const proposal of proposals) {
-    const current = best.get(proposal.derivative);
-    if (!current || proposal.rank < current[0].rank) best.set(proposal.derivative, [proposal]);
-    else if (proposal.rank === current[0].rank && !current.some((p) => p.objective === proposal.objective)) current.push(proposal);
-  }
-  const claims = new Map<Callable, Proposal[]>();
-  for (const [derivative, options] of best) {
-    if (options.length > 1) {
-      note('ambiguous-pair', derivative.nameNode, `\`${derivative.label}\` could be the gradient of ${listNames(options.map((o) => o.objective))}; it was not checked. Name its objective with a tag, e.g. /** @gradientOf ${options[0].objective.name} */.`);
-      continue;
-    }
-    const claim = claims.get(options[0].objective) ?? [];
-    claim.push(options[0]);
-    claims.set(options[0].objective, claim);
-  }
-  for (const [objective, claim] of claims) {
-    const strongest = Math.min(...claim.map((p) => p.rank));
-    const winners = claim.filter((p) => p.rank === strongest);
-    if (winners.length > 1) {
-      note('ambiguous-pair', objective.nameNode, `\`${objective.label}\` has more than one candidate gradient: ${listNames(winners.map((w) => w.derivative))}; none was checked. Tag the right one, e.g. /** @gradientOf ${objective.name} */ above \`${winners[0].derivative.name}\`.`);
-      winners.forEach((w) => used.add(w.derivative));
-      continue;
-    }
-    const { derivative, rank } = winners[0];
-    used.add(objective);
-    used.add(derivative);
-    matches.push({ group, objective, gradient: derivative, split: null, matchedBy: rank === 1 ? 'name' : rank === 2 ? 'shared-stem' : 'only-candidate', findings: [] });
-  }
+    }),
+  );
+  pairByNames((derivative) =>
+    derivative.names.some(isGenericDerivativeName)
+      ? group.callables.filter((c) => c !== derivative && !used.has(c) && c.names.some(isObjectiveLikeName)).map((objective) => ({ objective, rank: 3 as const }))
+      : [],
+  );
 
   // 3. One function returning value and gradient: `[f, g]`, `{ value, gradient }`, `{ loss, grad }`, …
   for (const callable of group.callables) {
@@ -131,7 +140,7 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
 
   // 4. Nothing skipped silently: a gradient-like function left unpaired says why.
   for (const callable of group.callables) {
-    if (used.has(callable) || !(callable.exported || group.host) || !callable.fn || !callable.names.some(isDerivativeLikeName) || !canBeDerivative(callable)) continue;
+    if (used.has(callable) || ambiguous.has(callable) || !(callable.exported || group.host) || !callable.fn || !callable.names.some(isDerivativeLikeName) || !canBeDerivative(callable)) continue;
     const objectives = group.callables.filter((c) => c !== callable && !used.has(c) && c.fn && canBeObjective(c) && shapeOf(c).kind === 'number');
     const reason = rejected.get(callable) ?? (objectives.length === 0 ? 'no function next to it returns a number' : 'no objective name matches it');
     const tagHint = objectives.length > 0 ? ` If it is the gradient of ${listNames(objectives)}, tag it, e.g. /** @gradientOf ${objectives[0].name} */.` : ' Tag it /** @gradientOf name */ with its objective\'s name.';

@@ -110,6 +110,8 @@ function shapeOfExpression(node: ts.Expression, fn: FunctionNode, types: TypeDec
     return { kind: 'vector' };
   }
   if (ts.isObjectLiteralExpression(expression)) {
+    // An object of functions is a factory's product (`{ f, grad }`), not a value with its gradient.
+    if (expression.properties.some((property) => holdsFunction(property, fn))) return { kind: 'other' };
     return { kind: 'object', keys: expression.properties.flatMap((property) => (property.name && propertyNameText(property.name as ts.PropertyName)) || []) };
   }
   if (ts.isNewExpression(expression) && ts.isIdentifier(expression.expression) && vectorConstructors.has(expression.expression.text)) return { kind: 'vector' };
@@ -164,6 +166,29 @@ function findFunction(name: string, sourceFile: ts.SourceFile): FunctionNode | u
     }
   }
   return undefined;
+}
+
+function holdsFunction(property: ts.ObjectLiteralElementLike, fn: FunctionNode): boolean {
+  if (ts.isMethodDeclaration(property) || ts.isGetAccessorDeclaration(property)) return true;
+  if (ts.isPropertyAssignment(property)) {
+    const value = unwrapParentheses(property.initializer);
+    return ts.isArrowFunction(value) || ts.isFunctionExpression(value);
+  }
+  if (ts.isShorthandPropertyAssignment(property)) {
+    const name = property.name.text;
+    let found = false;
+    const visit = (node: ts.Node): void => {
+      if (found) return;
+      if (ts.isFunctionDeclaration(node) && node.name?.text === name) found = true;
+      else if (ts.isVariableDeclaration(node) && ts.isIdentifier(node.name) && node.name.text === name && node.initializer) {
+        const value = unwrapParentheses(node.initializer);
+        found = ts.isArrowFunction(value) || ts.isFunctionExpression(value);
+      } else if (node === fn || !ts.isFunctionLike(node)) ts.forEachChild(node, visit);
+    };
+    if (fn.body) visit(fn.body);
+    return found;
+  }
+  return false;
 }
 
 function stripAssertions(expression: ts.Expression): ts.Expression {
