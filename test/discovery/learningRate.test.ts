@@ -114,3 +114,42 @@ test('a rate exported through export { } counts', () => {
   const text = source(...pairSource, 'const lr = 0.02;', 'export { lr };');
   assert.deepEqual(onlyPair(discoverPairs(text, 'model.ts')).plan.learningRate, { name: 'lr', value: 0.02 });
 });
+
+test('a field of a module-level options object, nested one level deep', () => {
+  const opts = onlyPair(discoverPairs(source(...pairSource, 'const opts = { lr: 0.05, iters: 200 };'), 'model.ts'));
+  assert.deepEqual(opts.plan.learningRate, { name: 'opts.lr', value: 0.05 });
+  const nested = onlyPair(discoverPairs(source(...pairSource, 'export const config = { epochs: 3, optimizer: { learningRate: 2e-3 } };'), 'model.ts'));
+  assert.deepEqual(nested.plan.learningRate, { name: 'config.optimizer.learningRate', value: 2e-3 });
+  assertSpanCovers(source(...pairSource, 'export const config = { epochs: 3, optimizer: { learningRate: 2e-3 } };'), nested.learningRate!.valueSpan, '2e-3');
+});
+
+test("the rate of the training loop's update, with the momentum coefficient next to it", () => {
+  const text = source(
+    ...pairSource,
+    ...secondPairSource,
+    'const step = 0.02;',
+    'const beta = 0.9;',
+    'export function train(w: [number, number]) {',
+    '  const v = [0, 0];',
+    '  for (let k = 0; k < 100; k++) {',
+    '    const g = costGrad(w);',
+    '    for (let j = 0; j < 2; j++) { v[j] = beta * v[j] + g[j]; w[j] -= step * v[j]; }',
+    '  }',
+    '}',
+  );
+  const result = discoverPairs(text, 'model.ts');
+  assert.deepEqual(
+    result.pairs.map((pair) => [pair.objective.name, pair.plan.learningRate]),
+    [
+      ['loss', null],
+      ['cost', { name: 'step', value: 0.02, momentum: { name: 'beta', value: 0.9 } }],
+    ],
+  );
+});
+
+test('a parameter default of the training function, and options written into the optimizer call', () => {
+  const loop = source(...pairSource, 'export function fit(w: [number, number], lr = 0.3) {', '  const g = lossGrad(w);', '  return w.map((wi, i) => wi - lr * g[i]);', '}');
+  assert.deepEqual(onlyPair(discoverPairs(loop, 'model.ts')).plan.learningRate, { name: 'lr', value: 0.3 });
+  const handed = source(...pairSource, 'export const result = descend(loss, lossGrad, [1, 1], { maxIter: 50, stepSize: 0.125 });');
+  assert.deepEqual(onlyPair(discoverPairs(handed, 'model.ts')).plan.learningRate, { name: 'stepSize', value: 0.125 });
+});

@@ -33,15 +33,14 @@ export interface CorpusModule {
   truth: Truth;
 }
 
-/** Every module with a truth file, in a stable order; the hessians/ folder holds truth helpers, not modules. */
+/** Every module with a truth file, in a stable order. */
 export function loadCorpus(): CorpusModule[] {
   const modules: CorpusModule[] = [];
   const walk = (dir: string) => {
     for (const entry of readdirSync(dir, { withFileTypes: true }).sort((a, b) => a.name.localeCompare(b.name))) {
       const full = path.join(dir, entry.name);
-      if (entry.isDirectory()) {
-        if (entry.name !== 'hessians') walk(full);
-      } else if (entry.name.endsWith('.truth.json')) {
+      if (entry.isDirectory()) walk(full);
+      else if (entry.name.endsWith('.truth.json')) {
         const stem = full.slice(0, -'.truth.json'.length);
         const file = ['.ts', '.js', '.mjs', '.cjs'].map((ext) => stem + ext).find((candidate) => readdirSync(dir).includes(path.basename(candidate)));
         if (!file) throw new Error(`no module beside ${full}`);
@@ -73,6 +72,8 @@ export interface ModuleScore {
   misses: number;
   rates: number;
   ratesRight: number;
+  /** Learning rates reported where the truth declares none (a line search's trial step, say). */
+  spuriousRates: number;
   /** One line per disagreement with the truth, empty when the module is judged right throughout. */
   problems: string[];
 }
@@ -85,7 +86,7 @@ export function labelsOf(target: TruthTarget): { objective: string; gradient: st
 
 /** Compares the CLI's pairs for one module with its truth. */
 export function scoreModule(module: CorpusModule, reported: ReportedPair[]): ModuleScore {
-  const score: ModuleScore = { file: module.file, tagged: module.truth.tagged, intended: 0, found: 0, judgedRight: 0, falseAlarms: 0, misses: 0, rates: 0, ratesRight: 0, problems: [] };
+  const score: ModuleScore = { file: module.file, tagged: module.truth.tagged, intended: 0, found: 0, judgedRight: 0, falseAlarms: 0, misses: 0, rates: 0, ratesRight: 0, spuriousRates: 0, problems: [] };
   const matched = new Set<ReportedPair>();
   for (const target of module.truth.targets) {
     score.intended++;
@@ -110,6 +111,9 @@ export function scoreModule(module: CorpusModule, reported: ReportedPair[]): Mod
       const verdict = pair.learningRate?.status ?? 'none';
       if (verdict === target.learningRate.expect) score.ratesRight++;
       else score.problems.push(`${name}: learning rate ${target.learningRate.name} expected ${target.learningRate.expect}, got ${verdict}${pair.learningRate ? ` (${pair.learningRate.name} = ${pair.learningRate.value})` : ''}`);
+    } else if (pair.learningRate) {
+      score.spuriousRates++;
+      score.problems.push(`${name}: reports learning rate ${pair.learningRate.name} = ${pair.learningRate.value} (${pair.learningRate.status}), but the module declares none`);
     }
   }
   for (const pair of reported) {

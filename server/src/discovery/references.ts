@@ -59,10 +59,7 @@ function isPropertyName(node: ts.Identifier): boolean {
 
 /** True when a function around `node` declares its name (parameter, local, inner function). */
 function isShadowed(node: ts.Identifier): boolean {
-  for (let scope: ts.Node | undefined = node.parent; scope && !ts.isSourceFile(scope); scope = scope.parent) {
-    if (ts.isFunctionLike(scope) && declaresName(scope, node.text)) return true;
-  }
-  return false;
+  return declaringFunction(node) !== undefined;
 }
 
 function declaresName(fn: ts.SignatureDeclaration, name: string): boolean {
@@ -135,25 +132,25 @@ export function resolveNumber(expression: ts.Expression, bindings: ModuleBinding
   const node = unwrapParentheses(expression);
   if (depth > 3) return null;
   if (ts.isIdentifier(node)) {
-    const fn = enclosingFunction(node);
-    const local = fn ? localInitializer(fn, node.text) : undefined;
-    if (local) {
+    const owner = declaringFunction(node);
+    if (owner) {
+      // A rate is a constant: a local that the function reassigns (a line search's `step /= 2`) is not one.
+      const local = localInitializer(owner, node.text);
+      if (!local || isReassigned(owner, node.text)) return null;
       const literal = evaluateNumber(local);
       if (literal !== null) return { name: node.text, value: literal, nameNode: node, declaration: local.parent, valueNode: local };
       return resolveNumber(local, bindings, depth + 1);
     }
-    if (fn && isShadowed(node)) return null;
     const binding = bindings.byLocalName.get(node.text);
     return binding ? numberOfConst(binding, node.text) : null;
   }
   if (ts.isPropertyAccessExpression(node)) {
     const path = memberPath(node);
     if (!path) return null;
-    const root = path[0];
-    const fn = enclosingFunction(node);
-    if (fn && isShadowed(rootIdentifier(node))) {
+    const owner = declaringFunction(rootIdentifier(node));
+    if (owner) {
       // `function train(opts = defaults)` reading `opts.lr`: follow the local back to a module-level object.
-      const local = fn ? localInitializer(fn, root) : undefined;
+      const local = localInitializer(owner, path[0]);
       if (!local || !ts.isIdentifier(unwrapParentheses(local))) return null;
       path[0] = (unwrapParentheses(local) as ts.Identifier).text;
     }
@@ -162,6 +159,29 @@ export function resolveNumber(expression: ts.Expression, bindings: ModuleBinding
     return fieldNumber(binding, binding.constValue, path.slice(1), path.join('.'));
   }
   return null;
+}
+
+/** The innermost function around `node` that declares its name, or undefined when the name is module-level. */
+function declaringFunction(node: ts.Identifier): ts.SignatureDeclaration | undefined {
+  for (let scope: ts.Node | undefined = node.parent; scope && !ts.isSourceFile(scope); scope = scope.parent) {
+    if (ts.isFunctionLike(scope) && declaresName(scope, node.text)) return scope;
+  }
+  return undefined;
+}
+
+/** True when `fn` assigns to `name` (`=`, `+=`, `/=`, `++`, …) anywhere in its body. */
+function isReassigned(fn: ts.SignatureDeclaration, name: string): boolean {
+  let found = false;
+  const isName = (target: ts.Expression) => ts.isIdentifier(target) && target.text === name;
+  const visit = (node: ts.Node): void => {
+    if (found) return;
+    if (ts.isBinaryExpression(node) && node.operatorToken.kind >= ts.SyntaxKind.FirstAssignment && node.operatorToken.kind <= ts.SyntaxKind.LastAssignment && isName(node.left)) found = true;
+    else if ((ts.isPrefixUnaryExpression(node) || ts.isPostfixUnaryExpression(node)) && [ts.SyntaxKind.PlusPlusToken, ts.SyntaxKind.MinusMinusToken].includes(node.operator) && isName(node.operand)) found = true;
+    else ts.forEachChild(node, visit);
+  };
+  const body = (fn as { body?: ts.Node }).body;
+  if (body) visit(body);
+  return found;
 }
 
 function numberOfConst(binding: TopLevelBinding, name: string): NumberReference | null {
