@@ -1,11 +1,12 @@
-// npm run bench: accuracy, smoothness, scale and editor latency, then the report files.
-// Usage: node bench/run.mjs [accuracy] [smoothness] [scale] [latency]   (default: all)
+// npm run bench: accuracy, smoothness, real code, scale and editor latency, then the report files.
+// Usage: node bench/run.mjs [accuracy] [smoothness] [realcode] [scale] [latency]   (default: all)
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { repoRoot } from '../test/support/paths';
 import { runAccuracy } from './accuracy';
 import { runLatency } from './latency';
+import { runRealCode } from './realCode';
 import { latestJson, markdown, scaleSvg, type BenchResults } from './report';
 import { runScale } from './scale';
 import { runSmoothness } from './smoothness';
@@ -30,6 +31,7 @@ async function main(): Promise<void> {
     machine: { cpus: os.availableParallelism?.() ?? os.cpus().length, cpuModel: os.cpus()[0]?.model.trim() ?? 'unknown', node: process.version, date: new Date().toISOString().slice(0, 10) },
     accuracy: null,
     smoothness: null,
+    realCode: null,
     scale: null,
     latency: null,
   };
@@ -41,6 +43,10 @@ async function main(): Promise<void> {
   if (wants('smoothness')) {
     log('smoothness…');
     results.smoothness = runSmoothness(log);
+  }
+  if (wants('realcode')) {
+    log('real code…');
+    results.realCode = await runRealCode(log);
   }
   if (wants('scale')) {
     log('scale…');

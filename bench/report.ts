@@ -2,6 +2,7 @@
 // bench/results/latest.md (the README's "Measured" tables) and docs/scale.svg.
 import type { AccuracyResult, CheckerTally } from './accuracy';
 import type { LatencyResult } from './latency';
+import type { RealCodeResult, RealCodeRow } from './realCode';
 import type { ScaleRow } from './scale';
 import type { SmoothnessResult } from './smoothness';
 
@@ -16,6 +17,7 @@ export interface BenchResults {
   machine: Machine;
   accuracy: (Pick<AccuracyResult, 'slopecheck' | 'baseline'> & { details: Omit<AccuracyResult, 'slopecheck' | 'baseline'> }) | null;
   smoothness: SmoothnessResult | null;
+  realCode: RealCodeResult | null;
   scale: ScaleRow[] | null;
   latency: (Omit<Partial<LatencyResult>, 'medianMs' | 'p95Ms' | 'firstCheckMs' | 'rssMb'> & { medianMs: number | null; p95Ms: number | null; firstCheckMs: number | null; rssMb: number | null; note?: string }) | null;
 }
@@ -63,6 +65,21 @@ export function targetsTable(results: BenchResults): string {
     const testSetMu = Math.max(...sm.testSet.map((r) => r.relErrMu));
     rows.push(['L̂ and μ̂ relative error ≤ 1e-2 on the test-set functions', `L̂ ${fmt(sm.testSetMaxRelErrL)}, μ̂ ${fmt(testSetMu)}`, sm.testSetMaxRelErrL <= 1e-2 && testSetMu <= 1e-2]);
     rows.push(['learning-rate verdicts at 0.99 and 1.01 × 2/λmax agree with a real run', `${sm.ratesAgree} of ${sm.rates.length}`, sm.ratesAgree === sm.rates.length]);
+  }
+  const r = results.realCode;
+  if (r) {
+    const u = r.untagged;
+    rows.push(['without tags, every intended pair found in ≥ 95 % of files', `${u.filesFullyFound} of ${u.files} files (${pct(u.filesFullyFound, u.files)})`, u.filesFullyFound >= 0.95 * u.files]);
+    const both = [r.untagged, r.tagged];
+    const found = both.reduce((t, row) => t + row.found, 0);
+    const right = both.reduce((t, row) => t + row.judgedRight, 0);
+    rows.push(['every found pair of the realistic corpus judged right', `${right} of ${found}`, right === found]);
+    const alarms = both.reduce((t, row) => t + row.falseAlarms, 0);
+    rows.push(['zero false alarms on the realistic corpus', String(alarms), alarms === 0]);
+    const rates = both.reduce((t, row) => t + row.rates, 0);
+    const ratesRight = both.reduce((t, row) => t + row.ratesRight, 0);
+    const spurious = both.reduce((t, row) => t + row.spuriousRates, 0);
+    rows.push(['every learning-rate verdict right at the start point', `${ratesRight} of ${rates}; ${spurious} rates reported where none is declared`, ratesRight === rates && spurious === 0]);
   }
   if (results.scale) {
     // n = 10 is below the directional threshold: every component is differenced there.
@@ -116,6 +133,14 @@ export function markdown(results: BenchResults): string {
       rows.map((r) => [r.label, r.n, fmt(r.lambdaMax, 6), fmt(r.lipschitz, 6), fmt(r.relErrL), fmt(r.lambdaMin, 6), fmt(r.mu, 6), fmt(r.relErrMu), r.hessianVectorProducts])));
     parts.push('Learning-rate verdicts on quadratics against a real run of 3000 gradient steps:', table(['quadratic', 'rate', 'verdict', 'real run', 'agree'],
       s.rates.map((r) => [r.label, `${r.multiple} × 2/λmax`, r.verdict ?? '–', r.runDiverged ? 'diverged' : 'did not diverge', r.agrees ? 'yes' : '**no**'])));
+  }
+  if (results.realCode) {
+    const r = results.realCode;
+    const row = (label: string, x: RealCodeRow) => [label, x.files, `${x.filesFullyFound} (${pct(x.filesFullyFound, x.files)})`, x.intended, x.found, x.judgedRight, x.falseAlarms, x.misses, `${x.ratesRight} of ${x.rates}`, x.spuriousRates];
+    parts.push('### Real code (fixtures/realistic, through the CLI)', table(['files', 'count', 'all intended pairs found', 'pairs intended', 'found', 'judged right', 'false alarms', 'misses', 'learning-rate verdicts right at the start', 'rates where none declared'],
+      [row('without tags', r.untagged), row('with tags', r.tagged)]));
+    if (r.problems.length > 0) parts.push('Disagreements with the truth:', table(['file', 'what'], r.problems.map((p) => [p.file, p.problem.replace(/\|/g, '/')])));
+    parts.push(`The CLI checked the ${r.untagged.files + r.tagged.files} files in ${fmt(r.seconds, 3)} s.`);
   }
   if (results.scale) {
     parts.push('### Scale (real sandbox, one wrong component)', table(['n', 'evaluations (f + ∇f)', 'wall time (s)', 'one f (ms)', 'one ∇f (ms)', 'overhead ratio', 'verdict', 'components named'],
@@ -173,6 +198,7 @@ export function latestJson(results: BenchResults): object {
     machine: results.machine,
     accuracy: results.accuracy && { slopecheck: strip(results.accuracy.slopecheck), baseline: strip(results.accuracy.baseline), details: results.accuracy.details },
     smoothness: results.smoothness,
+    realCode: results.realCode,
     scale: results.scale,
     latency: results.latency,
   };

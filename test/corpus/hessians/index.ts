@@ -14,6 +14,8 @@ import * as portfolio from './pension/portfolio';
 import * as armIk from './pickplace/arm-ik';
 import * as scorer from './shop-spam/scorer';
 import * as harmonic from './tides/harmonic';
+import * as smile from './options/smile';
+import * as depot from './depot/depot';
 
 export interface ExactDerivatives {
   start: number[];
@@ -35,4 +37,6 @@ export const hessians: Record<string, ExactDerivatives> = {
   'pickplace/arm-ik.ts': armIk,
   'shop-spam/scorer.ts': scorer,
   'tides/harmonic.ts': harmonic,
+  'options/smile.ts': smile,
+  'depot/depot.ts': depot,
 };
