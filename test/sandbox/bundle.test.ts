@@ -4,6 +4,7 @@ import { after, describe, test } from 'node:test';
 import * as path from 'node:path';
 import * as vm from 'node:vm';
 import { isRunnable, unrunnableBundleFindings } from '../../server/src/sandbox/bundle';
+import { withScopeHook } from '../../server/src/sandbox/scopeHook';
 import { bundleScriptName, locateInUserSource } from '../../server/src/sandbox/sourceMap';
 import { lineOf, tempProject } from './support';
 
@@ -91,6 +92,43 @@ describe('bundleDocument', () => {
     assert.match(findings[0].message, /not executed/);
     assert.deepEqual(bundle.builtinImportSites.map((site) => [site.message, site.line]).sort(), [['fs', 1], ['node:child_process', 2]]);
     assert.equal(findings[0].location?.line, 1, 'the finding points at the first built-in import');
+  });
+
+  test("a script guard's `url` and `process` imports get inert stand-ins; other built-ins stay refused", async () => {
+    const text = [
+      "import { fileURLToPath, pathToFileURL } from 'node:url';",
+      "import process from 'process';",
+      'export const guard = process.argv[1] === fileURLToPath(import.meta.url);',
+      "export const href = pathToFileURL('/srv/fit.ts').href;",
+      "export const back = fileURLToPath('file:///srv/fit.ts');",
+    ].join('\n');
+    const bundle = await project.bundle(text);
+    assert.deepEqual(bundle.builtinImports, []);
+    assert.ok(isRunnable(bundle));
+    // The stand-in `process` is the realm's global one, set up by the sandbox (processStandIn.ts).
+    const exports = vm.runInNewContext(
+      `(() => { const module = { exports: {} }; (function (exports, module, require) {\n${bundle.code}\n})(module.exports, module, () => { throw new Error('no require'); }); return module.exports; })()`,
+      { process: { argv: [] } },
+    ) as Record<string, unknown>;
+    assert.equal(exports.guard, false);
+    assert.equal(exports.href, 'file:///srv/fit.ts');
+    assert.equal(exports.back, '/srv/fit.ts');
+    const refused = await project.bundle("import { fileURLToPath } from 'node:url';\nimport { readFileSync } from 'node:fs';\nexport const f = () => readFileSync(fileURLToPath('file:///x'));\n");
+    assert.deepEqual(refused.builtinImports, ['node:fs']);
+  });
+
+  test('the scope hook exposes the values a plan names, exported or not, after the last line of the module', async () => {
+    const text = 'const hidden = [1, 2];\nclass Model { f() { return 3; } }\nexport const shown = 4;\n';
+    const bundle = await project.bundle(text, 'main.ts', ['hidden', 'Model', 'shown', 'hidden.length']);
+    const context: Record<string, unknown> = {};
+    vm.runInNewContext(`(function (exports, module, require) {\n${bundle.code}\n})({}, { exports: {} }, () => {})`, context);
+    const scope = context.__slopecheckScope as Record<string, () => unknown>;
+    assert.deepEqual(Array.from(scope.hidden() as number[]), [1, 2]);
+    assert.equal(scope['hidden.length'](), 2);
+    assert.equal(scope.shown(), 4);
+    assert.equal(new (scope.Model() as new () => { f(): number })().f(), 3);
+    // Nothing moved: the user's lines keep their numbers, so stacks still map to them.
+    assert.equal(withScopeHook(text, ['hidden']).split('\n').slice(0, 3).join('\n'), text.split('\n').slice(0, 3).join('\n'));
   });
 
   test('a built-in imported by an imported file is caught too', async () => {
