@@ -5,7 +5,9 @@ import { discoverPairs } from '../discovery/discover';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import { emptyReport } from '../engine/emptyReport';
 import type { CheckOptions, CheckPlan, Finding, PairReport, PairStatus } from '../engine/types';
-import { bundleDocument, unrunnableBundleFindings } from '../sandbox/bundle';
+import { documentNamespace } from '../discovery/importerCalls';
+import type { SourceText } from '../discovery/importers';
+import { bundleDocument, unrunnableBundleFindings, type Bundle } from '../sandbox/bundle';
 import { scopeKeysOf } from '../sandbox/scopeHook';
 import type { SandboxPool } from '../sandbox/pool';
 
@@ -33,6 +35,8 @@ export interface CheckDocumentHooks {
   onlyObjective?: string;
   /** Called after each pair, e.g. for progress reports. */
   onPairChecked?(done: number, total: number, objective: string): void;
+  /** Workspace files that import `fileName`, asked only when a pair needs data its own file lacks. */
+  importersOf?(fileName: string): Promise<readonly SourceText[]>;
 }
 
 /** Codes found by discovery that leave nothing to run. */
@@ -46,17 +50,41 @@ export async function checkDocument(
   signal?: AbortSignal,
   hooks: CheckDocumentHooks = {},
 ): Promise<DocumentCheck> {
-  const discovery = discoverPairs(text, fileName);
+  // Importers are looked for only when a pair asks for data its own file lacks; then discovery runs again with them.
+  let wantsImporters = false;
+  let discovery = discoverPairs(text, fileName, () => {
+    wantsImporters = true;
+    return [];
+  });
+  if (wantsImporters && hooks.importersOf) {
+    const importers = await hooks.importersOf(fileName);
+    if (importers.length > 0) discovery = discoverPairs(text, fileName, () => importers);
+  }
   const wanted = discovery.pairs.filter((pair) => hooks.onlyObjective === undefined || pair.objective.name === hooks.onlyObjective);
   const toCheck = wanted.filter((pair) => !pair.skipped);
   const result: DocumentCheck = { fileName, pairs: [], fileFindings: discovery.fileFindings, skipped: wanted.filter((pair) => pair.skipped) };
   if (toCheck.length === 0) return result;
 
-  // One bundle for every target of the file, exposing every value their plans name.
-  const bundle = await bundleDocument(text, fileName, toCheck.flatMap((pair) => scopeKeysOf(pair.plan)));
-  const bundleFindings = unrunnableBundleFindings(bundle);
+  // One bundle per entry: the document for most targets, an importing file for those whose data live there.
+  // Each exposes every value its targets' plans name.
+  const bundles = new Map<string, Promise<Bundle>>();
+  const bundleFor = (pair: DiscoveredPair): Promise<Bundle> => {
+    const entry = pair.entry;
+    const key = entry?.fileName ?? '';
+    let bundle = bundles.get(key);
+    if (!bundle) {
+      const keys = toCheck.filter((p) => (p.entry?.fileName ?? '') === key).flatMap((p) => scopeKeysOf(p.plan));
+      bundle = entry
+        ? bundleDocument(entry.text, entry.fileName, keys, { documentImport: { namespace: documentNamespace, specifier: entry.specifier }, replaced: { fileName, text } })
+        : bundleDocument(text, fileName, keys);
+      bundles.set(key, bundle);
+    }
+    return bundle;
+  };
   for (const pair of toCheck) {
     signal?.throwIfAborted();
+    const bundle = await bundleFor(pair);
+    const bundleFindings = unrunnableBundleFindings(bundle);
     const blocking = pair.findings.filter((f) => blockingCodes.has(f.code) || f.severity === 'error');
     if (bundleFindings.length > 0) {
       result.pairs.push(unrunOutcome(pair, [...pair.findings, ...bundleFindings], 'error'));

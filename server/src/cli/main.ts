@@ -2,6 +2,7 @@
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { checkDocument } from '../check/checkDocument';
+import { ImporterIndex, type SourceText } from '../discovery/importers';
 import { defaultCheckOptions } from '../engine/types';
 import { SandboxPool } from '../sandbox/pool';
 import { productVersion, sandboxScriptPath } from '../shared/productInfo';
@@ -43,6 +44,12 @@ async function main(argv: string[]): Promise<number> {
 
 /** Checks files in parallel, one sandbox process per worker; a broken file never stops the others. */
 async function checkFiles(files: string[], args: CliArguments): Promise<FileOutcome[]> {
+  // Every file of the run is read once: to check it, and to find the files that import another
+  // (a training script whose data a pair in another file needs).
+  const texts = new Map<string, string | Error>();
+  await Promise.all(files.map(async (file) => texts.set(file, await readSource(file).catch((error: Error) => error))));
+  const sources: SourceText[] = [...texts].flatMap(([file, text]) => (typeof text === 'string' ? [{ fileName: path.resolve(file), text }] : []));
+  const importers = new ImporterIndex(sources);
   const workers = Math.max(1, Math.min(files.length, os.availableParallelism?.() ?? os.cpus().length, 4));
   const pool = new SandboxPool({ sandboxScript: sandboxScriptPath(), timeoutMs: args.timeoutMs, size: workers });
   const options = { ...defaultCheckOptions, seed: args.seed };
@@ -55,8 +62,10 @@ async function checkFiles(files: string[], args: CliArguments): Promise<FileOutc
       const shown = path.relative(process.cwd(), file) || file;
       progress(`checking ${outcomes.length + 1}/${files.length} ${shown}`);
       try {
-        const text = await readSource(file);
-        outcomes.push({ path: shown, check: await checkDocument(text, path.resolve(file), pool, options), error: null });
+        const text = texts.get(file);
+        if (typeof text !== 'string') throw text;
+        const check = await checkDocument(text, path.resolve(file), pool, options, undefined, { importersOf: async (fileName) => importers.importersOf(fileName) });
+        outcomes.push({ path: shown, check, error: null });
       } catch (error) {
         process.stderr.write(`slopecheck: cannot check ${shown}: ${describeFsError(error)}\n`);
         outcomes.push({ path: shown, check: null, error: describeFsError(error) });

@@ -12,6 +12,8 @@ export interface Callable {
   name: string;
   /** Every name it goes by: the local name and the names it is exported under. */
   names: string[];
+  /** The names other modules can import it by (for a method: none of its own; see `Host.exportNames`). */
+  exportNames: string[];
   /** How the user refers to it: `loss`, `model.loss`. */
   label: string;
   /** Null for an imported function: its body is in another file. */
@@ -31,6 +33,8 @@ export interface Host {
   construct: boolean;
   /** The binding the host comes from, for findings about it. */
   binding: TopLevelBinding;
+  /** The names other modules can import the host by. */
+  exportNames: string[];
 }
 
 export interface CallableGroup {
@@ -48,6 +52,7 @@ export function collectCallables(bindings: ModuleBindings): CallableGroup[] {
     .map((binding) => ({
       name: binding.localName,
       names: [...new Set([binding.localName, ...exportNames(binding)])],
+      exportNames: exportNames(binding),
       // Users know a function by the name other modules import it under.
       label: exportNames(binding)[0] ?? binding.localName,
       fn: binding.fn,
@@ -64,19 +69,22 @@ export function collectCallables(bindings: ModuleBindings): CallableGroup[] {
     const members = hostMembers(binding, bindings);
     if (!members) continue;
     if (members.classNode) classesWithInstance.add(members.classNode);
-    groups.push({ host: { key: binding.localName, construct: false, binding }, callables: members.callables.map((c) => ({ ...c, names: [c.name], label: `${binding.localName}.${c.name}`, exported: exportedBindings.has(binding) })) });
+    groups.push({
+      host: { key: binding.localName, construct: false, binding, exportNames: exportNames(binding) },
+      callables: members.callables.map((c) => ({ ...c, names: [c.name], exportNames: [], label: `${binding.localName}.${c.name}`, exported: exportedBindings.has(binding) })),
+    });
   }
   for (const binding of bindings.byLocalName.values()) {
     const classNode = binding.classNode;
     if (!classNode || classesWithInstance.has(classNode) || !exportedBindings.has(binding) || !constructsWithoutArguments(classNode)) continue;
-    const callables = classMethods(classNode).map((c) => ({ ...c, names: [c.name], label: `${binding.localName}.${c.name}`, exported: true }));
-    groups.push({ host: { key: binding.localName, construct: true, binding }, callables });
+    const callables = classMethods(classNode).map((c) => ({ ...c, names: [c.name], exportNames: [], label: `${binding.localName}.${c.name}`, exported: true }));
+    groups.push({ host: { key: binding.localName, construct: true, binding, exportNames: exportNames(binding) }, callables });
   }
   return groups.filter((group) => group.callables.length > 0);
 }
 
 /** The methods a module-level value will have, read from how it is built; null when it is not a host. */
-type Member = Omit<Callable, 'label' | 'exported' | 'names'>;
+type Member = Omit<Callable, 'label' | 'exported' | 'names' | 'exportNames'>;
 
 function hostMembers(binding: TopLevelBinding, bindings: ModuleBindings): { callables: Member[]; classNode?: ts.ClassDeclaration } | null {
   const declaration = binding.docHost;

@@ -6,6 +6,7 @@ import * as ts from 'typescript';
 import type { CallRecipe, Finding } from '../engine/types';
 import { collectCallables, type Callable } from './callables';
 import { collectBindings, type ModuleBindings } from './exports';
+import type { SourceText } from './importers';
 import { readInvocation } from './invocation';
 import { assignLearningRates, planRate } from './learningRate';
 import { matchPairs, type PairMatch } from './pairing';
@@ -16,13 +17,19 @@ import { spanOfNode, spanOfRange } from './spans';
 import { collectTypeDeclarations, firstParameterType, isFloat64ArrayType, tupleLength, type TypeDeclarations } from './typeShapes';
 import type { DiscoveredPair, DiscoveryResult, NamedSpan } from './types';
 
-export function discoverPairs(text: string, fileName: string): DiscoveryResult {
+/**
+ * `importers` lists the workspace files that import this one; it is asked only when a pair
+ * takes data that this file does not supply.
+ */
+export function discoverPairs(text: string, fileName: string, importers: () => readonly SourceText[] = () => []): DiscoveryResult {
   const sourceFile = ts.createSourceFile(fileName, text, ts.ScriptTarget.Latest, true, scriptKindOf(fileName));
   const bindings = collectBindings(sourceFile);
   const types = collectTypeDeclarations(sourceFile);
   const paired = matchPairs(sourceFile, collectCallables(bindings), types);
   const learningRates = assignLearningRates(sourceFile, bindings, paired.matches);
-  const pairs = paired.matches.map((match) => describePair(sourceFile, bindings, types, match, learningRates.rates.get(match) ?? null));
+  let known: readonly SourceText[] | null = null;
+  const importersOnce = () => (known ??= importers());
+  const pairs = paired.matches.map((match) => describePair(sourceFile, bindings, types, match, learningRates.rates.get(match) ?? null, importersOnce));
   return { pairs, fileFindings: [...syntaxErrors(sourceFile), ...paired.fileFindings, ...learningRates.fileFindings] };
 }
 
@@ -32,6 +39,7 @@ function describePair(
   types: TypeDeclarations,
   match: PairMatch,
   learningRate: DiscoveredPair['learningRate'],
+  importers: () => readonly SourceText[],
 ): DiscoveredPair {
   const { objective, gradient, group } = match;
   // The signature that shows the parameter: the objective's, or for an imported objective the derivative's.
@@ -40,16 +48,18 @@ function describePair(
   const hosts = [objective.docHost, ...(gradient ? [gradient.docHost] : [])];
   const probes = readProbeTags(sourceFile, hosts, bindings);
   const settled = settleDimension(tupleLength(parameterType, types), probes);
-  const invocation = readInvocation(sourceFile, bindings, match, settled.dimension);
+  const invocation = readInvocation(sourceFile, bindings, match, settled.dimension, importers);
   const findings: Finding[] = [...match.findings, ...probes.findings, ...settled.findings, ...invocation.findings];
   const hasProbes = probes.probes.length > 0 || probes.probeKeys.length > 0;
   if (!hasProbes && invocation.start === null && settled.dimension === null) findings.push(unknownDimension(objective.label));
   const recipeSpans = { ...invocation.keySpans };
-  if (group.host) recipeSpans[group.host.key] = spanOfNode(sourceFile, group.host.binding.nameNode);
+  if (group.host && !invocation.entry) recipeSpans[group.host.key] = spanOfNode(sourceFile, group.host.binding.nameNode);
   const recipe: CallRecipe = {
-    host: group.host ? { key: group.host.key, construct: group.host.construct } : null,
-    value: objective.name,
-    derivative: gradient?.name ?? null,
+    ...(invocation.functionsViaEntry ?? {
+      host: group.host ? { key: group.host.key, construct: group.host.construct } : null,
+      value: objective.name,
+      derivative: gradient?.name ?? null,
+    }),
     split: match.split,
     extraArguments: invocation.extraArguments,
   };
@@ -62,6 +72,7 @@ function describePair(
     learningRate,
     matchedBy: match.matchedBy,
     recipeSpans,
+    entry: invocation.entry,
     skipped: hasSkipDirective(sourceFile, objective.declaration as ts.Statement),
     plan: {
       kind: 'gradient',

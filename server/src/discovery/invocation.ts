@@ -3,12 +3,14 @@
 // or default parameter values), and the user's own starting point (a const named like a
 // start, or the point the file hands to its training loop or optimizer).
 import * as ts from 'typescript';
-import type { Finding } from '../engine/types';
+import type { CallRecipe, Finding } from '../engine/types';
 import type { Callable } from './callables';
 import { isStartName, tagNames } from './conventions';
 import { unwrapParentheses, type FunctionNode, type ModuleBindings } from './exports';
 import type { PairMatch } from './pairing';
-import { callsOf, enclosingFunction, localInitializer, moduleLevelText, refersTo } from './references';
+import { readImporterInvocation, documentNamespace, type ImporterEntry } from './importerCalls';
+import type { SourceText } from './importers';
+import { callsOf, enclosingFunction, localInitializer, looksLikePoint, moduleLevelText, refersTo } from './references';
 import { spanOfNode } from './spans';
 import { readTags } from './tags';
 import type { SourceSpan } from './types';
@@ -16,6 +18,12 @@ import type { SourceSpan } from './types';
 export interface Invocation {
   /** Scope keys of the arguments after the point; null leaves one to its default. */
   extraArguments: Array<string | null>;
+  /**
+   * Set when the data come from a file that imports this one: that file is the bundle's entry,
+   * and the functions are reached through the namespace it imports this document under.
+   */
+  entry: ImporterEntry | null;
+  functionsViaEntry: Pick<CallRecipe, 'host' | 'value' | 'derivative'> | null;
   /** Scope key of the start point, or null. */
   start: string | null;
   /** Where each scope key was named, so a value that fails at run time is reported there. */
@@ -29,19 +37,26 @@ function pairFunctions(match: PairMatch): Callable[] {
 }
 
 /** `dimension`: the number of coordinates the signature states, if it does; a start of another length is not this pair's. */
-export function readInvocation(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, dimension: number | null): Invocation {
-  const invocation: Invocation = { extraArguments: [], start: null, keySpans: {}, findings: [] };
-  readExtraArguments(sourceFile, bindings, match, invocation);
+export function readInvocation(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, dimension: number | null, importers: () => readonly SourceText[]): Invocation {
+  const invocation: Invocation = { extraArguments: [], entry: null, functionsViaEntry: null, start: null, keySpans: {}, findings: [] };
+  const viaImporter = readExtraArguments(sourceFile, bindings, match, invocation, importers);
   readStart(sourceFile, bindings, match, dimension, invocation);
+  if (viaImporter) {
+    // Everything is now read in the importer's scope: its start, else this file's exported one.
+    const ownStart = invocation.start !== null ? bindings.exported.find((e) => e.binding.localName === invocation.start)?.exportName : undefined;
+    invocation.start = viaImporter.start ?? (ownStart !== undefined ? `${documentNamespace}.${ownStart}` : null);
+    invocation.keySpans = {};
+  }
   return invocation;
 }
 
-function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, invocation: Invocation): void {
+/** Fills in the extra arguments; returns the importer's invocation when they come from a file that imports this one. */
+function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, invocation: Invocation, importers: () => readonly SourceText[]): ReturnType<typeof readImporterInvocation> {
   // The local function's parameters tell what is needed; an imported objective shows none.
   const fn = pairFunctions(match).map((c) => c.fn).find((f): f is FunctionNode => f !== null);
-  if (!fn) return;
+  if (!fn) return null;
   const extra = fn.parameters.slice(1).filter((p) => !p.dotDotDotToken);
-  if (extra.length === 0) return;
+  if (extra.length === 0) return null;
   const optional = (index: number) => !!(extra[index].initializer || extra[index].questionToken);
 
   // 1. `@data a, b` on either function.
@@ -52,11 +67,11 @@ function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings,
     const unknown = names.find((name) => !bindings.byLocalName.has(name.split('.')[0]));
     if (unknown !== undefined || names.length === 0) {
       invocation.findings.push({ code: 'missing-argument', severity: 'error', subject: 'objective', message: `\`@data ${tag.text}\` on \`${callable.label}\` must name module-level values of this file${unknown ? `; there is no \`${unknown.split('.')[0]}\`` : ''}, e.g. /** @data trainX, trainY */.` });
-      return;
+      return null;
     }
     invocation.extraArguments = names;
     for (const name of names) invocation.keySpans[name] = tag.span;
-    return;
+    return null;
   }
 
   // 2. A call in the file whose other arguments are module-level values (a training loop, a test).
@@ -69,12 +84,21 @@ function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings,
       if (extra.some((_, index) => index >= texts.length && !optional(index))) continue;
       invocation.extraArguments = texts as string[];
       given.forEach((argument, index) => (invocation.keySpans[texts[index]!] = spanOfNode(sourceFile, argument)));
-      return;
+      return null;
     }
   }
 
   // 3. Default values: the call leaves them out.
-  if (extra.every((_, index) => optional(index))) return;
+  if (extra.every((_, index) => optional(index))) return null;
+
+  // 4. A workspace file that imports this one and calls the pair with its own module-level values.
+  const viaImporter = readImporterInvocation(match, sourceFile.fileName, extra.length, optional, importers());
+  if (viaImporter) {
+    invocation.entry = viaImporter.entry;
+    invocation.extraArguments = viaImporter.recipe.extraArguments;
+    invocation.functionsViaEntry = { host: viaImporter.recipe.host, value: viaImporter.recipe.value, derivative: viaImporter.recipe.derivative };
+    return viaImporter;
+  }
   const missing = extra.filter((_, index) => !optional(index)).map((p) => `\`${p.name.getText()}\``);
   invocation.findings.push({
     code: 'missing-argument',
@@ -82,26 +106,9 @@ function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings,
     subject: 'objective',
     message:
       `\`${match.objective.label}\` takes ${missing.join(', ')} after the point, and Slopecheck found no value for ${missing.length === 1 ? 'it' : 'them'}, so the pair was not checked. ` +
-      `Name module-level values with a tag, e.g. /** @data ${extra.map((p) => p.name.getText()).join(', ')} */, call it once in this file with module-level values (as a training loop does), or give the parameter a default value.`,
+      `Name module-level values with a tag, e.g. /** @data ${extra.map((p) => p.name.getText()).join(', ')} */, call it once in this file or in a workspace file that imports it with module-level values (as a training loop does), or give the parameter a default value.`,
   });
-}
-
-/** A point written out: `[0.5, 1]`, `new Float64Array([…])`, `new Array(3).fill(0)`, `x0.slice()`, or a const holding one. */
-function looksLikePoint(expression: ts.Expression, bindings: ModuleBindings, depth = 0): boolean {
-  const node = unwrapParentheses(expression);
-  if (ts.isAsExpression(node) || ts.isSatisfiesExpression(node)) return looksLikePoint(node.expression, bindings, depth);
-  if (ts.isArrayLiteralExpression(node)) return node.elements.length > 0 && node.elements.every((e) => !ts.isArrayLiteralExpression(unwrapParentheses(e)) && !ts.isObjectLiteralExpression(unwrapParentheses(e)));
-  if (ts.isNewExpression(node) && ts.isIdentifier(node.expression)) return ['Float64Array', 'Float32Array', 'Array'].includes(node.expression.text);
-  if (ts.isCallExpression(node) && ts.isPropertyAccessExpression(node.expression)) {
-    const method = node.expression.name.text;
-    if (['from', 'of'].includes(method)) return true;
-    if (['slice', 'fill', 'map', 'concat'].includes(method)) return looksLikePoint(node.expression.expression, bindings, depth);
-  }
-  if (ts.isIdentifier(node) && depth < 2) {
-    const value = bindings.byLocalName.get(node.text)?.constValue;
-    return !!value && looksLikePoint(value, bindings, depth + 1);
-  }
-  return false;
+  return null;
 }
 
 /** Number of coordinates when the text says it (`[1, 2, 3]`, `new Float64Array([…])`), else null. */

@@ -111,6 +111,24 @@ export function localInitializer(fn: ts.SignatureDeclaration, name: string): ts.
   return found;
 }
 
+/** A point written out: `[0.5, 1]`, `new Float64Array([…])`, `new Array(3).fill(0)`, `x0.slice()`, or a const holding one. */
+export function looksLikePoint(expression: ts.Expression, bindings: ModuleBindings, depth = 0): boolean {
+  const node = unwrapParentheses(expression);
+  if (ts.isAsExpression(node) || ts.isSatisfiesExpression(node)) return looksLikePoint(node.expression, bindings, depth);
+  if (ts.isArrayLiteralExpression(node)) return node.elements.length > 0 && node.elements.every((e) => !ts.isArrayLiteralExpression(unwrapParentheses(e)) && !ts.isObjectLiteralExpression(unwrapParentheses(e)));
+  if (ts.isNewExpression(node) && ts.isIdentifier(node.expression)) return ['Float64Array', 'Float32Array', 'Array'].includes(node.expression.text);
+  if (ts.isCallExpression(node) && ts.isPropertyAccessExpression(node.expression)) {
+    const method = node.expression.name.text;
+    if (['from', 'of'].includes(method)) return true;
+    if (['slice', 'fill', 'map', 'concat'].includes(method)) return looksLikePoint(node.expression.expression, bindings, depth);
+  }
+  if (ts.isIdentifier(node) && depth < 2) {
+    const value = bindings.byLocalName.get(node.text)?.constValue;
+    return !!value && looksLikePoint(value, bindings, depth + 1);
+  }
+  return false;
+}
+
 /** A number written in the file, and where: `lr` (a const) or `opts.lr` (a field of an options object). */
 export interface NumberReference {
   name: string;

@@ -1,6 +1,7 @@
 // What discovery finds in one document. Positions come from the text as given
 // (an unsaved buffer works), so the editor can place diagnostics and edits.
 import type { CheckPlan, Finding, TargetKind } from '../engine/types';
+import type { ImporterEntry } from './importerCalls';
 
 /** How a pair was found, for explanations in hovers and docs. */
 export type MatchedBy = 'name' | 'shared-stem' | 'only-candidate' | 'gradientOf-tag' | 'combined';
@@ -41,6 +42,11 @@ export interface DiscoveredPair {
   matchedBy: MatchedBy;
   /** Where each scope key of the plan is named (host, data, start), for findings about a value that fails at run time. */
   recipeSpans: Record<string, SourceSpan>;
+  /**
+   * Null when the document itself is the bundle's entry. Set when the data come from a file that
+   * imports it: that file is bundled instead, with the document's text in place of its file.
+   */
+  entry: ImporterEntry | null;
   /** A `// slopecheck-skip` comment sits directly above the objective: the pair is not checked. */
   skipped: boolean;
   /** Plan without options: the caller merges its settings in. */

@@ -3,6 +3,7 @@
 // Knows nothing of the LSP connection: the server passes callbacks, tests pass their own.
 import { checkDocument, type DocumentCheck, type PairOutcome } from '../check/checkDocument';
 import type { CachedRunner } from '../check/runCache';
+import type { SourceText } from '../discovery/importers';
 import { defaultCheckOptions, type CheckOptions, type PairStatus } from '../engine/types';
 import type { DocumentSummaryParams } from '../shared/protocol';
 import type { SlopecheckSettings } from '../shared/settings';
@@ -19,6 +20,8 @@ export interface DocumentChecksHost {
   summary(params: DocumentSummaryParams): void;
   /** Null when the client does not show server-initiated progress. */
   progress: ProgressFactory | null;
+  /** Workspace files that import a document; absent when the server knows no workspace. */
+  importersOf?(fileName: string): Promise<readonly SourceText[]>;
   log(message: string): void;
 }
 
@@ -154,6 +157,7 @@ export class DocumentChecks {
       const runner = bypassCache ? this.host.runner.uncached() : this.host.runner;
       const check = await checkDocument(text, state.fileName, runner, checkOptions(this.host.settings()), controller.signal, {
         onPairChecked: (done, total, objective) => progress?.pairChecked(done, total, objective),
+        importersOf: this.host.importersOf,
       });
       if (!isCurrent()) return;
       state.check = check;

@@ -21,6 +21,7 @@ import { checkOptions, DocumentChecks } from './documentChecks';
 import { hoverMarkdown, nameAt } from './hover';
 import { PatchVerifier } from './patchVerifier';
 import { SettingsSource } from './settingsSource';
+import { WorkspaceSources } from './workspaceSources';
 
 export function startServer(connection: Connection): void {
   const documents = new TextDocuments(TextDocument);
@@ -43,6 +44,9 @@ export function startServer(connection: Connection): void {
     codeLensRefresh = capabilities.workspace?.codeLens?.refreshSupport === true;
     dynamicConfiguration = capabilities.workspace?.didChangeConfiguration?.dynamicRegistration === true;
     settings = new SettingsSource(connection, capabilities.workspace?.configuration === true);
+    const folders = (params.workspaceFolders ?? (params.rootUri ? [{ uri: params.rootUri }] : [])).filter((folder) => folder.uri.startsWith('file:')).map((folder) => fileNameOf(folder.uri));
+    const openText = (fileName: string) => documents.all().find((document) => fileNameOf(document.uri) === fileName)?.getText();
+    const sources = new WorkspaceSources(() => folders, openText);
     checks = new DocumentChecks({
       runner,
       settings: () => settings.current,
@@ -55,6 +59,7 @@ export function startServer(connection: Connection): void {
       summary: (summary) => void connection.sendNotification(methods.documentSummary, summary),
       progress: capabilities.window?.workDoneProgress ? () => connection.window.createWorkDoneProgress() : null,
       log: (message) => connection.console.error(message),
+      importersOf: folders.length > 0 ? (fileName) => sources.importersOf(fileName) : undefined,
     });
     return {
       capabilities: {

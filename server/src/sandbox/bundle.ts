@@ -42,8 +42,15 @@ function isBuiltin(specifier: string): boolean {
   return specifier.startsWith('node:') || builtinNames.has(specifier);
 }
 
+export interface BundleOptions {
+  /** Appended with the hook: `import * as namespace from specifier` (an importing file as the entry). */
+  documentImport?: { namespace: string; specifier: string };
+  /** A file whose unsaved text replaces what is on disk when the entry imports it. */
+  replaced?: { fileName: string; text: string };
+}
+
 /** Bundles `text` as `fileName`, with the scope hook for `scopeKeys` (see scopeHook.ts) appended. */
-export async function bundleDocument(text: string, fileName: string, scopeKeys: readonly string[] = []): Promise<Bundle> {
+export async function bundleDocument(text: string, fileName: string, scopeKeys: readonly string[] = [], options: BundleOptions = {}): Promise<Bundle> {
   const absoluteFile = path.resolve(fileName);
   const sourceRoot = path.dirname(absoluteFile);
   const builtinImports = new Set<string>();
@@ -62,12 +69,19 @@ export async function bundleDocument(text: string, fileName: string, scopeKeys: 
         contents: scriptGuardStandIns[args.path.replace(/^node:/, '')],
         loader: 'js',
       }));
+      const replaced = options.replaced;
+      if (replaced) {
+        const replacedPath = path.resolve(replaced.fileName);
+        build.onLoad({ filter: /.*/, namespace: 'file' }, (args) =>
+          path.resolve(args.path) === replacedPath ? { contents: replaced.text, loader: loaderFor(replacedPath), resolveDir: path.dirname(replacedPath) } : undefined,
+        );
+      }
     },
   };
   const base = { code: '', fileName: absoluteFile, sourceRoot };
   try {
     const result = await esbuild.build({
-      stdin: { contents: withScopeHook(text, scopeKeys), sourcefile: path.basename(absoluteFile), resolveDir: sourceRoot, loader: loaderFor(absoluteFile) },
+      stdin: { contents: withScopeHook(text, scopeKeys, options.documentImport), sourcefile: path.basename(absoluteFile), resolveDir: sourceRoot, loader: loaderFor(absoluteFile) },
       absWorkingDir: sourceRoot,
       bundle: true,
       format: 'cjs',

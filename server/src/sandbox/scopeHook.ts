@@ -22,8 +22,10 @@ export function scopeKeysOf(plan: Pick<CheckPlan, 'recipe' | 'probeKeys' | 'star
  * source positions of the user's code do not move. A key that names nothing fails only
  * when its thunk is called, as a ReferenceError the runner reports.
  */
-export function withScopeHook(text: string, keys: readonly string[]): string {
+export function withScopeHook(text: string, keys: readonly string[], documentImport?: { namespace: string; specifier: string }): string {
   if (keys.length === 0) return text;
   const entries = [...new Set(keys)].map((key) => `${JSON.stringify(key)}: () => (${key})`);
-  return `${text}\n;globalThis.${scopeHookGlobal} = {\n${entries.join(',\n')}\n};\n`;
+  // An importing file as the entry reaches the checked document through a namespace import (importerCalls.ts).
+  const importLine = documentImport ? `import * as ${documentImport.namespace} from ${JSON.stringify(documentImport.specifier)};\n` : '';
+  return `${text}\n${importLine};globalThis.${scopeHookGlobal} = {\n${entries.join(',\n')}\n};\n`;
 }
