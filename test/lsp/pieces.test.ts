@@ -72,6 +72,25 @@ test('hover card: verdict, error, local steps, probes and cost, with the caution
   assert.match(card, /local estimates near the probes/);
 });
 
+test('hover card: how the target is called, its start, and a momentum next to the rate', () => {
+  const text = [
+    'class Fit { loss(w: number[], X: number[][]): number { return w[0] * X[0][0]; } lossGrad(w: number[], X: number[][]): number[] { return [X[0][0]]; } }',
+    'export const model = new Fit();',
+    'const trainX = [[2]];',
+    'const w0 = [0.5];',
+    'model.lossGrad(w0, trainX);',
+  ].join('\n');
+  const pair = discoverPairs(text, '/w/fit.ts').pairs[0];
+  const card = hoverMarkdown(pair, { pair, console: [], report: report({
+    learningRate: { name: 'opts.lr', value: 0.1, status: 'safe', decreased: [true], momentum: { name: 'opts.beta', value: 0.9 } },
+    probes: [probe([0.5])],
+    dimension: 1,
+  }) }, false);
+  assert.match(card, /called as \| `model\.loss\(x, trainX\) and model\.lossGrad\(x, trainX\)` \|/);
+  assert.match(card, /probe 1 \| your start `w0`; the others perturb it \|/);
+  assert.match(card, /learning rate `opts\.lr` = 0\.1 \| safe \(at or below 1\/L̂\); used with momentum `opts\.beta` = 0\.9, not taken into account \|/);
+});
+
 test('lens titles', () => {
   const pass = outcomeOf(pairText, report({ smoothness: { lipschitz: 37.215, mu: 1, kappa: 37, safeStep: 1 / 37.215, divergenceStep: 2 / 37.215 } }));
   assert.equal(lensTitle(pass, false), 'gradient matches · step ≤ 0.026 (local estimate)');

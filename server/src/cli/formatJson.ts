@@ -3,6 +3,8 @@
 import { findingLine } from '../check/checkDocument';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
+import { documentNamespace } from '../discovery/importerCalls';
+import { describeCall } from '../shared/wording';
 
 export function formatJson(outcomes: FileOutcome[], meta: { version: string; seed: number }): string {
   const files = outcomes.map((outcome) => ({
@@ -11,16 +13,19 @@ export function formatJson(outcomes: FileOutcome[], meta: { version: string; see
     skipped: (outcome.check?.skipped ?? []).map((pair) => pair.objective.name),
     findings: (outcome.check?.fileFindings ?? []).map((f) => ({ code: f.code, severity: f.severity, message: f.message, line: f.span.line })),
     pairs: (outcome.check?.pairs ?? []).map(({ pair, report, console }) => ({
+      kind: pair.kind,
       objective: pair.objective.name,
       gradient: pair.gradient?.name ?? pair.objective.name,
       combined: pair.gradient === null,
       line: pair.objective.nameSpan.line,
+      call: describeCall(pair.plan, documentNamespace),
+      dataFrom: pair.entry ? { path: pair.entry.fileName, line: pair.entry.line } : null,
       status: report.status,
       maxRelError: report.maxRelError,
       lipschitz: report.smoothness?.lipschitz ?? null,
       safeStep: report.smoothness?.safeStep ?? null,
       learningRate: report.learningRate
-        ? { name: report.learningRate.name, value: report.learningRate.value, status: report.learningRate.status }
+        ? { name: report.learningRate.name, value: report.learningRate.value, status: report.learningRate.status, ...(report.learningRate.momentum ? { momentum: report.learningRate.momentum } : {}) }
         : null,
       findings: report.findings.map((f) => ({
         code: f.code,

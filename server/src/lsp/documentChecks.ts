@@ -8,6 +8,7 @@ import { defaultCheckOptions, type CheckOptions, type PairStatus } from '../engi
 import type { DocumentSummaryParams } from '../shared/protocol';
 import type { SlopecheckSettings } from '../shared/settings';
 import type { DocumentCheckSummary } from '../shared/summary';
+import { baseName } from '../shared/wording';
 import { CheckProgress, type ProgressFactory } from './progress';
 
 export interface DocumentChecksHost {
@@ -201,8 +202,4 @@ export function summarise(state: DocumentCheckSummary['state'], check: DocumentC
 
 export function checkOptions(settings: SlopecheckSettings): CheckOptions {
   return { ...defaultCheckOptions, seed: settings.seed, probeCount: settings.probeCount, fullCheckMaxDimension: settings.fullCheckMaxDimension };
-}
-
-function baseName(fileName: string): string {
-  return fileName.split(/[\\/]/).pop() ?? fileName;
 }

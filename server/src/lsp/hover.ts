@@ -3,7 +3,8 @@
 import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import type { RateStatus } from '../engine/types';
-import { describeDiagnosis, shortNumber, verdictWords } from '../shared/wording';
+import { documentNamespace } from '../discovery/importerCalls';
+import { baseName, describeCall, describeDiagnosis, shortNumber, verdictWords } from '../shared/wording';
 
 export type NameRole = 'objective' | 'gradient' | 'learningRate';
 
@@ -45,7 +46,12 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
     rows.push(['κ̂ = L̂/μ̂', s.kappa === null ? '— (μ̂ ≤ 0)' : shortNumber(s.kappa)]);
   }
   const rate = report.learningRate;
-  if (rate) rows.push([`learning rate \`${rate.name}\` = ${rate.value}`, rateWords[rate.status]]);
+  if (rate) {
+    const momentum = rate.momentum ? `; used with momentum \`${rate.momentum.name}\` = ${rate.momentum.value}, not taken into account` : '';
+    rows.push([`learning rate \`${rate.name}\` = ${rate.value}`, rateWords[rate.status] + momentum]);
+  }
+  rows.push(['called as', `\`${describeCall(pair.plan, documentNamespace)}\`${pair.entry ? ` with the data of ${baseName(pair.entry.fileName)}, line ${pair.entry.line}` : ''}`]);
+  if (pair.plan.start !== null && report.probes.length > 0) rows.push(['probe 1', `your start \`${pair.plan.start.replace(`${documentNamespace}.`, '')}\`; the others perturb it`]);
   if (report.probes.length > 0) rows.push(['probes', describeProbes(report.probes.map((p) => p.point), report.dimension)]);
   rows.push(['work', `${report.evaluations.objective} objective and ${report.evaluations.gradient} gradient evaluations in ${Math.round(report.elapsedMs)} ms`]);
 
@@ -65,3 +71,4 @@ function describeProbes(points: number[][], dimension: number | null): string {
   const more = points.length > shownProbes ? `, and ${points.length - shownProbes} more` : '';
   return `${points.length} in dimension ${n}: ${shown.join(', ')}${more}`;
 }
+

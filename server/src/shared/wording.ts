@@ -1,7 +1,7 @@
 // The words and figures a user reads about a pair, one set for every place they appear
 // (diagnostics, hover, code lens, quick pick, status bar, report, CLI).
 import { formatList } from '../engine/format';
-import type { Diagnosis, PairStatus } from '../engine/types';
+import type { CheckPlan, Diagnosis, PairStatus } from '../engine/types';
 
 /** Rounds a positive x down to `digits` significant figures: a step taken from it stays at or below x. */
 export function floorToSignificant(x: number, digits = 2): number {
@@ -20,6 +20,26 @@ export function shortNumber(x: number | null | undefined, digits = 3): string {
   const magnitude = Math.abs(x);
   if (magnitude >= 1e4 || magnitude < 1e-3) return Number(x.toPrecision(digits)).toExponential().replace('e+', 'e');
   return String(Number(x.toPrecision(digits)));
+}
+
+/**
+ * How the check calls a target, as the user would write it: `model.loss(x, trainX, trainY)`,
+ * `new Bowl().loss(x)`, `lossAndGrad(x)[0]`. `namespace` is how an importing entry names the
+ * document, left out of what the user reads.
+ */
+export function describeCall(plan: Pick<CheckPlan, 'recipe'>, namespace?: string): string {
+  const { recipe } = plan;
+  const plain = (key: string) => (namespace && key.startsWith(`${namespace}.`) ? key.slice(namespace.length + 1) : key);
+  const host = recipe.host ? (recipe.host.construct ? `new ${plain(recipe.host.key)}()` : plain(recipe.host.key)) : null;
+  const args = ['x', ...recipe.extraArguments.map((a) => a ?? '(default)')].join(', ');
+  const call = (fn: string) => `${host ? `${host}.` : ''}${plain(fn)}(${args})`;
+  if (recipe.split) return `${call(recipe.value)}: value [${JSON.stringify(recipe.split.value)}], gradient [${JSON.stringify(recipe.split.derivative)}]`;
+  return recipe.derivative === null ? call(recipe.value) : `${call(recipe.value)} and ${call(recipe.derivative)}`;
+}
+
+/** The last part of a path, whichever separator the platform writes. */
+export function baseName(fileName: string): string {
+  return fileName.split(/[\\/]/).pop() ?? fileName;
 }
 
 /** The shape of a wrong gradient in a few words. */
