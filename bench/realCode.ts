@@ -1,20 +1,12 @@
 // The "real code" table: the CLI over the realistic corpus (fixtures/realistic), counted against
 // the truth beside each module, separately for files without Slopecheck tags and with them.
-import { corpusDir, loadCorpus, scoreModule, type ModuleScore } from '../test/support/corpus';
+import { corpusDir, loadCorpus, scoreModule, tallyKeys, type ModuleScore, type Tally } from '../test/support/corpus';
 import { runCli } from '../test/support/runCli';
 
-export interface RealCodeRow {
+export interface RealCodeRow extends Tally {
   files: number;
   /** Files in which every intended pair was found. */
   filesFullyFound: number;
-  intended: number;
-  found: number;
-  judgedRight: number;
-  falseAlarms: number;
-  misses: number;
-  rates: number;
-  ratesRight: number;
-  spuriousRates: number;
 }
 
 export interface RealCodeResult {
@@ -26,19 +18,9 @@ export interface RealCodeResult {
 }
 
 function tally(scores: ModuleScore[]): RealCodeRow {
-  const sum = (pick: (s: ModuleScore) => number) => scores.reduce((total, s) => total + pick(s), 0);
-  return {
-    files: scores.length,
-    filesFullyFound: scores.filter((s) => s.found === s.intended).length,
-    intended: sum((s) => s.intended),
-    found: sum((s) => s.found),
-    judgedRight: sum((s) => s.judgedRight),
-    falseAlarms: sum((s) => s.falseAlarms),
-    misses: sum((s) => s.misses),
-    rates: sum((s) => s.rates),
-    ratesRight: sum((s) => s.ratesRight),
-    spuriousRates: sum((s) => s.spuriousRates),
-  };
+  const row: RealCodeRow = { files: scores.length, filesFullyFound: scores.filter((s) => s.found === s.intended).length, ...Object.fromEntries(tallyKeys.map((key) => [key, 0])) } as RealCodeRow;
+  for (const score of scores) for (const key of tallyKeys) row[key] += score[key];
+  return row;
 }
 
 export async function runRealCode(log: (line: string) => void): Promise<RealCodeResult> {

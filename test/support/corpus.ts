@@ -62,9 +62,8 @@ export interface ReportedPair {
   findings: Array<{ code: string; message: string }>;
 }
 
-export interface ModuleScore {
-  file: string;
-  tagged: boolean;
+/** Counts against the truth, for one module or summed over many. */
+export interface Tally {
   intended: number;
   found: number;
   judgedRight: number;
@@ -74,6 +73,13 @@ export interface ModuleScore {
   ratesRight: number;
   /** Learning rates reported where the truth declares none (a line search's trial step, say). */
   spuriousRates: number;
+}
+
+export const tallyKeys: ReadonlyArray<keyof Tally> = ['intended', 'found', 'judgedRight', 'falseAlarms', 'misses', 'rates', 'ratesRight', 'spuriousRates'];
+
+export interface ModuleScore extends Tally {
+  file: string;
+  tagged: boolean;
   /** One line per disagreement with the truth, empty when the module is judged right throughout. */
   problems: string[];
 }

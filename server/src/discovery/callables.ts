@@ -4,6 +4,7 @@
 // exported class whose constructor takes no arguments.
 import * as ts from 'typescript';
 import { unwrapParentheses, type FunctionNode, type ModuleBindings, type TopLevelBinding } from './exports';
+import { localDeclaration } from './references';
 import { returnedExpressions } from './returns';
 import { propertyNameText } from './typeShapes';
 
@@ -149,19 +150,11 @@ function objectMembers(literal: ts.ObjectLiteralExpression, factory: FunctionNod
 
 /** A function declared directly in a factory's body, by name. */
 function localFunction(factory: FunctionNode, name: string): { fn: FunctionNode; nameNode: ts.Identifier; declaration: ts.Node } | undefined {
-  const body = factory.body;
-  if (!body || !ts.isBlock(body)) return undefined;
-  for (const statement of body.statements) {
-    if (ts.isFunctionDeclaration(statement) && statement.name?.text === name && statement.body) return { fn: statement, nameNode: statement.name, declaration: statement };
-    if (ts.isVariableStatement(statement)) {
-      for (const declaration of statement.declarationList.declarations) {
-        if (!ts.isIdentifier(declaration.name) || declaration.name.text !== name || !declaration.initializer) continue;
-        const value = unwrapParentheses(declaration.initializer);
-        if (ts.isArrowFunction(value) || ts.isFunctionExpression(value)) return { fn: value, nameNode: declaration.name, declaration };
-      }
-    }
-  }
-  return undefined;
+  const local = localDeclaration(factory, name);
+  if (local && ts.isFunctionDeclaration(local) && local.body && local.name) return { fn: local, nameNode: local.name, declaration: local };
+  if (!local || !ts.isVariableDeclaration(local) || !local.initializer || !ts.isIdentifier(local.name)) return undefined;
+  const value = unwrapParentheses(local.initializer);
+  return ts.isArrowFunction(value) || ts.isFunctionExpression(value) ? { fn: value, nameNode: local.name, declaration: local } : undefined;
 }
 
 function isStatic(member: ts.ClassElement): boolean {

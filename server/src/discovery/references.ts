@@ -63,19 +63,26 @@ function isShadowed(node: ts.Identifier): boolean {
 }
 
 function declaresName(fn: ts.SignatureDeclaration, name: string): boolean {
-  if (fn.parameters.some((p) => bindsName(p.name, name))) return true;
-  let found = false;
+  return fn.parameters.some((p) => bindsName(p.name, name)) || localDeclaration(fn, name) !== undefined;
+}
+
+/**
+ * The declaration of `name` in `fn`'s own body (a `let`/`const`/`var`, destructured names
+ * included, or an inner function declaration); nested functions declare for themselves.
+ */
+export function localDeclaration(fn: ts.SignatureDeclaration, name: string): ts.VariableDeclaration | ts.FunctionDeclaration | undefined {
+  let found: ts.VariableDeclaration | ts.FunctionDeclaration | undefined;
   const visit = (node: ts.Node): void => {
     if (found) return;
     if ((ts.isVariableDeclaration(node) && bindsName(node.name, name)) || (ts.isFunctionDeclaration(node) && node.name?.text === name)) {
-      found = true;
+      found = node;
       return;
     }
-    if (node !== fn && ts.isFunctionLike(node)) return;
+    if (ts.isFunctionLike(node)) return;
     ts.forEachChild(node, visit);
   };
   const body = (fn as { body?: ts.Node }).body;
-  if (body) visit(body);
+  if (body) ts.forEachChild(body, visit);
   return found;
 }
 
@@ -96,19 +103,8 @@ export function enclosingFunction(node: ts.Node): ts.SignatureDeclaration | unde
 export function localInitializer(fn: ts.SignatureDeclaration, name: string): ts.Expression | undefined {
   const parameter = fn.parameters.find((p) => ts.isIdentifier(p.name) && p.name.text === name);
   if (parameter) return parameter.initializer;
-  let found: ts.Expression | undefined;
-  const visit = (node: ts.Node): void => {
-    if (found) return;
-    if (ts.isVariableDeclaration(node) && ts.isIdentifier(node.name) && node.name.text === name && node.initializer) {
-      found = node.initializer;
-      return;
-    }
-    if (node !== fn && ts.isFunctionLike(node)) return;
-    ts.forEachChild(node, visit);
-  };
-  const body = (fn as { body?: ts.Node }).body;
-  if (body) visit(body);
-  return found;
+  const declaration = localDeclaration(fn, name);
+  return declaration && ts.isVariableDeclaration(declaration) && ts.isIdentifier(declaration.name) ? declaration.initializer : undefined;
 }
 
 /** A point written out: `[0.5, 1]`, `new Float64Array([…])`, `new Array(3).fill(0)`, `x0.slice()`, or a const holding one. */

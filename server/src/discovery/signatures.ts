@@ -5,6 +5,7 @@
 import * as ts from 'typescript';
 import { unwrapParentheses, type FunctionNode } from './exports';
 import { returnedExpressions } from './returns';
+import { localDeclaration } from './references';
 import { objectTypeKeys, propertyNameText, resolveType, returnType, type TypeDeclarations } from './typeShapes';
 
 export type ReturnShape =
@@ -137,20 +138,12 @@ function shapeOfCall(call: ts.CallExpression, fn: FunctionNode, types: TypeDecla
   return unknown;
 }
 
-/** The shape of a local `let`/`const` (or a parameter) of `fn` named `name`, from its type or initializer. */
+/** The shape of a local `let`/`const` of `fn` named `name`, from its type or initializer. */
 function shapeOfLocal(name: string, fn: FunctionNode, types: TypeDeclarations, depth: number): ReturnShape {
-  let found: ReturnShape = unknown;
-  const visit = (node: ts.Node): void => {
-    if (found.kind !== 'unknown') return;
-    if (node !== fn && ts.isFunctionLike(node)) return;
-    if (ts.isVariableDeclaration(node) && ts.isIdentifier(node.name) && node.name.text === name) {
-      found = node.type ? shapeOfType(node.type, types) : node.initializer ? shapeOfExpression(node.initializer, fn, types, depth) : unknown;
-      return;
-    }
-    ts.forEachChild(node, visit);
-  };
-  if (fn.body) ts.forEachChild(fn.body, visit);
-  return found;
+  const declaration = localDeclaration(fn, name);
+  if (!declaration || !ts.isVariableDeclaration(declaration)) return unknown;
+  if (declaration.type) return shapeOfType(declaration.type, types);
+  return declaration.initializer ? shapeOfExpression(declaration.initializer, fn, types, depth) : unknown;
 }
 
 /** A top-level function declaration or function-valued const of the file, by name. */
@@ -175,18 +168,10 @@ function holdsFunction(property: ts.ObjectLiteralElementLike, fn: FunctionNode):
     return ts.isArrowFunction(value) || ts.isFunctionExpression(value);
   }
   if (ts.isShorthandPropertyAssignment(property)) {
-    const name = property.name.text;
-    let found = false;
-    const visit = (node: ts.Node): void => {
-      if (found) return;
-      if (ts.isFunctionDeclaration(node) && node.name?.text === name) found = true;
-      else if (ts.isVariableDeclaration(node) && ts.isIdentifier(node.name) && node.name.text === name && node.initializer) {
-        const value = unwrapParentheses(node.initializer);
-        found = ts.isArrowFunction(value) || ts.isFunctionExpression(value);
-      } else if (node === fn || !ts.isFunctionLike(node)) ts.forEachChild(node, visit);
-    };
-    if (fn.body) visit(fn.body);
-    return found;
+    const local = localDeclaration(fn, property.name.text);
+    if (local && ts.isFunctionDeclaration(local)) return true;
+    const value = local && ts.isVariableDeclaration(local) && local.initializer ? unwrapParentheses(local.initializer) : undefined;
+    return !!value && (ts.isArrowFunction(value) || ts.isFunctionExpression(value));
   }
   return false;
 }
