@@ -48,7 +48,7 @@ function describePair(
   const hosts = [objective.docHost, ...(gradient ? [gradient.docHost] : [])];
   const probes = readProbeTags(sourceFile, hosts, bindings);
   const settled = settleDimension(tupleLength(parameterType, types), probes);
-  const invocation = readInvocation(sourceFile, bindings, match, settled.dimension, importers);
+  const invocation = readInvocation(sourceFile, bindings, types, match, settled.dimension, importers);
   const findings: Finding[] = [...match.findings, ...probes.findings, ...settled.findings, ...invocation.findings];
   const hasProbes = probes.probes.length > 0 || probes.probeKeys.length > 0;
   if (!hasProbes && invocation.start === null && settled.dimension === null) findings.push(unknownDimension(objective.label));
@@ -62,6 +62,7 @@ function describePair(
     }),
     split: match.split,
     extraArguments: invocation.extraArguments,
+    ...(invocation.extraArguments.length > 0 ? { extraParameters: invocation.extraParameters.slice(0, invocation.extraArguments.length) } : {}),
   };
   return {
     kind: 'gradient',

@@ -3,7 +3,9 @@
 // or default parameter values), and the user's own starting point (a const named like a
 // start, or the point the file hands to its training loop or optimizer).
 import * as ts from 'typescript';
-import type { CallRecipe, Finding } from '../engine/types';
+import type { CallRecipe, DeclaredParameter, Finding } from '../engine/types';
+import { declaredParameter } from './signatures';
+import type { TypeDeclarations } from './typeShapes';
 import type { Callable } from './callables';
 import { isStartName, tagNames } from './conventions';
 import { unwrapParentheses, type FunctionNode, type ModuleBindings } from './exports';
@@ -18,6 +20,8 @@ import type { SourceSpan } from './types';
 export interface Invocation {
   /** Scope keys of the arguments after the point; null leaves one to its default. */
   extraArguments: Array<string | null>;
+  /** The declared parameters those arguments go to, as far as their types say. */
+  extraParameters: Array<DeclaredParameter | null>;
   /**
    * Set when the data come from a file that imports this one: that file is the bundle's entry,
    * and the functions are reached through the namespace it imports this document under.
@@ -37,9 +41,9 @@ function pairFunctions(match: PairMatch): Callable[] {
 }
 
 /** `dimension`: the number of coordinates the signature states, if it does; a start of another length is not this pair's. */
-export function readInvocation(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, dimension: number | null, importers: () => readonly SourceText[]): Invocation {
-  const invocation: Invocation = { extraArguments: [], entry: null, functionsViaEntry: null, start: null, keySpans: {}, findings: [] };
-  const viaImporter = readExtraArguments(sourceFile, bindings, match, invocation, importers);
+export function readInvocation(sourceFile: ts.SourceFile, bindings: ModuleBindings, types: TypeDeclarations, match: PairMatch, dimension: number | null, importers: () => readonly SourceText[]): Invocation {
+  const invocation: Invocation = { extraArguments: [], extraParameters: [], entry: null, functionsViaEntry: null, start: null, keySpans: {}, findings: [] };
+  const viaImporter = readExtraArguments(sourceFile, bindings, types, match, invocation, importers);
   readStart(sourceFile, bindings, match, dimension, invocation);
   if (viaImporter) {
     // Everything is now read in the importer's scope: its start, else this file's exported one.
@@ -51,12 +55,13 @@ export function readInvocation(sourceFile: ts.SourceFile, bindings: ModuleBindin
 }
 
 /** Fills in the extra arguments; returns the importer's invocation when they come from a file that imports this one. */
-function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings, match: PairMatch, invocation: Invocation, importers: () => readonly SourceText[]): ReturnType<typeof readImporterInvocation> {
+function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings, types: TypeDeclarations, match: PairMatch, invocation: Invocation, importers: () => readonly SourceText[]): ReturnType<typeof readImporterInvocation> {
   // The local function's parameters tell what is needed; an imported objective shows none.
   const fn = pairFunctions(match).map((c) => c.fn).find((f): f is FunctionNode => f !== null);
   if (!fn) return null;
   const extra = fn.parameters.slice(1).filter((p) => !p.dotDotDotToken);
   if (extra.length === 0) return null;
+  invocation.extraParameters = extra.map((parameter) => declaredParameter(parameter, types));
   const optional = (index: number) => !!(extra[index].initializer || extra[index].questionToken);
 
   // 1. `@data a, b` on either function.

@@ -3,6 +3,7 @@
 // first parameter can be a point. Declared types win; otherwise the returned expressions and
 // the local variables they name are read.
 import * as ts from 'typescript';
+import type { DeclaredParameter } from '../engine/types';
 import { unwrapParentheses, type FunctionNode } from './exports';
 import { returnedExpressions } from './returns';
 import { localDeclaration } from './references';
@@ -45,6 +46,20 @@ export function takesPoint(fn: FunctionNode, types: TypeDeclarations): boolean {
 export function firstParameterText(fn: FunctionNode): string | null {
   const type = fn.parameters[0]?.type ?? (fn.parameters[0] ? ts.getJSDocType(fn.parameters[0]) : undefined);
   return type ? type.getText().replace(/\s+|readonly/g, '') : null;
+}
+
+/** What a parameter's declared type lets the sandbox check a data value against, or null. */
+export function declaredParameter(parameter: ts.ParameterDeclaration, types: TypeDeclarations): DeclaredParameter | null {
+  const type = parameter.type ?? ts.getJSDocType(parameter);
+  if (!type || !ts.isIdentifier(parameter.name)) return null;
+  const shape = shapeOfType(type, types);
+  const declared = type.getText();
+  if (shape.kind === 'number' || shape.kind === 'vector') return { name: parameter.name.text, declared, shape: shape.kind };
+  if (shape.kind === 'object') return { name: parameter.name.text, declared, shape: 'object' };
+  const resolved = resolveType(type, types);
+  const element = resolved && ts.isArrayTypeNode(resolved) ? resolved.elementType : resolved && ts.isTypeReferenceNode(resolved) && resolved.typeArguments?.length === 1 && ts.isIdentifier(resolved.typeName) && ['Array', 'ReadonlyArray'].includes(resolved.typeName.text) ? resolved.typeArguments[0] : undefined;
+  if (element && shapeOfType(element, types).kind === 'vector') return { name: parameter.name.text, declared, shape: 'matrix' };
+  return null;
 }
 
 /** Shape of a declared type: `number`, `number[]`, `Float64Array`, tuples and same-file aliases. */

@@ -60,6 +60,16 @@ export interface CallRecipe {
   split: { value: string; derivative: string } | null;
   /** Scope keys of the arguments after the point, in order; null leaves that argument to its default. */
   extraArguments: Array<string | null>;
+  /** What each of those parameters is declared as, when its type says: a value of another shape is reported before any call. */
+  extraParameters?: Array<DeclaredParameter | null>;
+}
+
+/** A parameter after the point with a declared type the sandbox can check a value against. */
+export interface DeclaredParameter {
+  name: string;
+  /** The type as written, for messages. */
+  declared: string;
+  shape: 'number' | 'vector' | 'matrix' | 'object';
 }
 
 /** A learning rate found in the user's code, with the momentum coefficient next to it if any. */

@@ -3,7 +3,7 @@
 // host is a JSON string, so no object of this realm ever reaches the host.
 import { checkPair } from '../engine/checkPair';
 import type { PairFunctions } from '../engine/checkPair';
-import type { CheckPlan, Finding, FindingSubject, PairReport } from '../engine/types';
+import type { CheckPlan, DeclaredParameter, Finding, FindingSubject, PairReport } from '../engine/types';
 import { installConsole, takeConsole } from './consoleShim';
 import { plainJson } from './plainJson';
 import { installProcessStandIn } from './processStandIn';
@@ -109,13 +109,18 @@ function resolveFunctions(read: (key: string) => Read, plan: CheckPlan): Resolve
   const makeVector: PairFunctions['makeVector'] =
     plan.argumentKind === 'float64array' ? (values) => new Float64Array(values) : copyToArray;
   const extra: unknown[] = [];
-  for (const key of recipe.extraArguments) {
+  for (let index = 0; index < recipe.extraArguments.length; index++) {
+    const key = recipe.extraArguments[index];
     if (key === null) {
       extra.push(undefined);
       continue;
     }
     const argument = read(key);
     if ('finding' in argument) return { findings: [argument.finding] };
+    const parameter = recipe.extraParameters?.[index];
+    if (parameter && !hasShape(argument.value, parameter.shape)) {
+      return { findings: [recipeFinding(key, `'${key}' is ${describeShape(argument.value)}, but the parameter \`${parameter.name}\` it is passed to is declared \`${parameter.declared}\`.`)] };
+    }
     extra.push(argument.value);
   }
   let host: unknown = null;
@@ -218,6 +223,21 @@ function readPoint(read: Read, key: string, role: 'probe' | 'start'): number[] |
   if (point.length === 0) return bad('is empty');
   if (!point.every((x) => typeof x === 'number' && Number.isFinite(x))) return bad('holds a value that is not a finite number');
   return point as number[];
+}
+
+/** Whether a data value can be what its parameter is declared as (checked on the first elements only). */
+function hasShape(value: unknown, shape: DeclaredParameter['shape']): boolean {
+  const isVector = (v: unknown) => ArrayBuffer.isView(v) || (Array.isArray(v) && (v.length === 0 || typeof v[0] === 'number'));
+  switch (shape) {
+    case 'number':
+      return typeof value === 'number';
+    case 'vector':
+      return isVector(value);
+    case 'matrix':
+      return Array.isArray(value) && (value.length === 0 || isVector(value[0]));
+    case 'object':
+      return typeof value === 'object' && value !== null;
+  }
 }
 
 /** What a value is, for messages: `an array of 20 arrays`, `an object with keys X, y`, `a number`. */
