@@ -48,7 +48,14 @@ test("the importer's call supplies the data; its loop supplies the start; the fu
   const pair = onlyPair(discoverPairs(model, '/w/model.ts', () => [{ fileName: '/w/train.ts', text: train }]));
   assert.deepEqual(pair.findings.filter((f) => f.code === 'missing-argument' || f.code === 'unknown-dimension'), []);
   assert.deepEqual(pair.entry && { fileName: pair.entry.fileName, specifier: pair.entry.specifier, line: pair.entry.line }, { fileName: '/w/train.ts', specifier: './model.js', line: 5 });
-  assert.deepEqual(pair.plan.recipe, { host: null, value: `${documentNamespace}.mse`, derivative: `${documentNamespace}.mseGrad`, split: null, extraArguments: ['train'] });
+  assert.deepEqual(pair.plan.recipe, {
+    host: null,
+    value: `${documentNamespace}.mse`,
+    derivative: `${documentNamespace}.mseGrad`,
+    split: null,
+    extraArguments: ['train'],
+    extraParameters: [{ name: 'batch', declared: 'Batch', shape: 'object' }],
+  });
   assert.equal(pair.plan.start, '[0.5]');
   // The names the user knows stay those of the document.
   assert.deepEqual([pair.objective.name, pair.gradient?.name], ['mse', 'mseGrad']);
