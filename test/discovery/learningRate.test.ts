@@ -153,3 +153,10 @@ test('a parameter default of the training function, and options written into the
   const handed = source(...pairSource, 'export const result = descend(loss, lossGrad, [1, 1], { maxIter: 50, stepSize: 0.125 });');
   assert.deepEqual(onlyPair(discoverPairs(handed, 'model.ts')).plan.learningRate, { name: 'stepSize', value: 0.125 });
 });
+
+test("a rate passed to the training function: what the file's call of it passes", () => {
+  const text = source(...pairSource, 'function sgd(w: [number, number], rate: number) {', '  const g = lossGrad(w);', '  return [w[0] - rate * g[0], w[1] - rate * g[1]];', '}', 'export const fitted = sgd([1, 1], 0.0625);');
+  const pair = onlyPair(discoverPairs(text, 'model.ts'));
+  assert.deepEqual(pair.plan.learningRate, { name: 'rate', value: 0.0625 });
+  assertSpanCovers(text, pair.learningRate!.valueSpan, '0.0625');
+});

@@ -12,7 +12,7 @@ import { unwrapParentheses, type FunctionNode, type ModuleBindings } from './exp
 import type { PairMatch } from './pairing';
 import { readImporterInvocation, documentNamespace, type ImporterEntry } from './importerCalls';
 import type { SourceText } from './importers';
-import { callsOf, enclosingFunction, localInitializer, looksLikePoint, moduleLevelText, refersTo } from './references';
+import { callsOf, callsOfFunction, enclosingFunction, localInitializer, looksLikePoint, moduleLevelText, refersTo } from './references';
 import { spanOfNode } from './spans';
 import { readTags } from './tags';
 import type { SourceSpan } from './types';
@@ -209,17 +209,4 @@ function copiedFrom(expression: ts.Expression): ts.Identifier | undefined {
   }
   if (ts.isNewExpression(node) && node.arguments?.length === 1) return copiedFrom(node.arguments[0]);
   return undefined;
-}
-
-/** Calls, anywhere in the file, of a function declared by name (`function fit`, `const fit = (…) =>`). */
-function callsOfFunction(sourceFile: ts.SourceFile, fn: ts.SignatureDeclaration): ts.CallExpression[] {
-  const name = ts.isFunctionDeclaration(fn) ? fn.name?.text : ts.isVariableDeclaration(fn.parent) && ts.isIdentifier(fn.parent.name) ? fn.parent.name.text : undefined;
-  if (name === undefined) return [];
-  const calls: ts.CallExpression[] = [];
-  const visit = (node: ts.Node): void => {
-    if (ts.isCallExpression(node) && ts.isIdentifier(node.expression) && node.expression.text === name) calls.push(node);
-    ts.forEachChild(node, visit);
-  };
-  visit(sourceFile);
-  return calls;
 }

@@ -149,8 +149,9 @@ export function resolveNumber(expression: ts.Expression, bindings: ModuleBinding
     const owner = declaringFunction(node);
     if (owner) {
       // A rate is a constant: a local that the function reassigns (a line search's `step /= 2`) is not one.
-      const local = localInitializer(owner, node.text);
-      if (!local || isReassigned(owner, node.text)) return null;
+      if (isReassigned(owner, node.text)) return null;
+      const local = localInitializer(owner, node.text) ?? argumentOfFirstCall(owner, node.text);
+      if (!local) return null;
       const literal = evaluateNumber(local);
       if (literal !== null) return { name: node.text, value: literal, nameNode: node, declaration: local.parent, valueNode: local };
       return resolveNumber(local, bindings, depth + 1);
@@ -181,6 +182,13 @@ function declaringFunction(node: ts.Identifier): ts.SignatureDeclaration | undef
     if (ts.isFunctionLike(scope) && declaresName(scope, node.text)) return scope;
   }
   return undefined;
+}
+
+/** For a parameter without a default, what the file's first call of its function passes: `sgd(w0, 0.01)`. */
+function argumentOfFirstCall(fn: ts.SignatureDeclaration, name: string): ts.Expression | undefined {
+  const index = fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === name);
+  if (index < 0) return undefined;
+  return callsOfFunction(fn.getSourceFile(), fn).find((call) => call.arguments.length > index)?.arguments[index];
 }
 
 /** True when `fn` assigns to `name` (`=`, `+=`, `/=`, `++`, …) anywhere in its body. */
@@ -237,4 +245,17 @@ function memberPath(node: ts.PropertyAccessExpression): string[] | null {
   if (!ts.isIdentifier(current)) return null;
   path.unshift(current.text);
   return path;
+}
+
+/** Calls, anywhere in the file, of a function declared by name (`function fit`, `const fit = (…) =>`). */
+export function callsOfFunction(sourceFile: ts.SourceFile, fn: ts.SignatureDeclaration): ts.CallExpression[] {
+  const name = ts.isFunctionDeclaration(fn) ? fn.name?.text : ts.isVariableDeclaration(fn.parent) && ts.isIdentifier(fn.parent.name) ? fn.parent.name.text : undefined;
+  if (name === undefined) return [];
+  const calls: ts.CallExpression[] = [];
+  const visit = (node: ts.Node): void => {
+    if (ts.isCallExpression(node) && ts.isIdentifier(node.expression) && node.expression.text === name) calls.push(node);
+    ts.forEachChild(node, visit);
+  };
+  visit(sourceFile);
+  return calls;
 }
