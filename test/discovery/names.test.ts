@@ -18,6 +18,7 @@ test('derivative names that name their objective whole: Prime, d…, grad…, gr
     ['nll', 'nllGrad'],
     ['residualSS', 'residualSSGradient'],
     ['risk', 'risk_prime'],
+    ['f', 'fprime'],
   ];
   for (const [objective, derivative] of cases) {
     const result = discoverPairs(source(sum(objective), grad(derivative)), 'fit.ts');
@@ -33,6 +34,14 @@ test('a shared stem pairs softmaxLoss with softmaxGrad, confirmed by what each r
     ['hingeCost', 'hingeGradient'],
   ]);
   assert.ok(result.pairs.every((pair) => pair.matchedBy === 'shared-stem'));
+});
+
+test('the same word after the role: gradFn with lossFn, gradientFunction with costFunction', () => {
+  const result = discoverPairs(source(sum('lossFn'), grad('gradFn'), sum('costFunction'), grad('gradientFunction')), 'roles.ts');
+  assert.deepEqual(pairNames(result), [
+    ['lossFn', 'gradFn'],
+    ['costFunction', 'gradientFunction'],
+  ]);
 });
 
 test('a generic `gradient` pairs with the only objective-like function; with two it lists both and the tag', () => {

@@ -33,6 +33,10 @@ export function objectiveNamesFor(derivative: string): Array<{ name: string; ran
     add(match[1], 1);
     for (const word of objectiveWords) add(match[1] + capitalise(word), 2);
   }
+  // `fprime`, `fgrad`: a one- or two-letter objective with a lower-case suffix, as numerical codes write it.
+  if ((match = /^([a-z]{1,2})(?:prime|grad|deriv)$/.exec(derivative))) add(match[1], 1);
+  // `gradFn` ↔ `lossFn`, `gradientFunction` ↔ `costFunction`: the same word after the role.
+  if ((match = /^(?:grad|gradient)([A-Z]\w*)$/.exec(derivative))) for (const word of objectiveWords) add(word + match[1], 2);
   if ((match = /^(?:grad|d|deriv)_?([A-Za-z].*)$/.exec(derivative))) {
     const rest = match[1];
     // `dLoss` and `gradLoss` name `loss`; `df` names `f`; a lower-case rest after `d` (`dot`, `data`) is a word, not a derivative.
