@@ -201,16 +201,6 @@ for (const [name, attempt] of Object.entries(tries)) {
 });
 
 describe('sandbox processes', () => {
-  test('a warm process is reused, with a fresh context each run', async () => {
-    const first = await runModule('globalThis.leftBehind = 1;\n');
-    assert.deepEqual(codes(first.report), ['unresolved-target']);
-    const pids = pool.processIds();
-    assert.equal(pids.length, 1);
-    const second = await runModule("if (typeof leftBehind !== 'undefined') throw new Error('context was reused');\n");
-    assert.deepEqual(codes(second.report), ['unresolved-target']);
-    assert.deepEqual(pool.processIds(), pids);
-  });
-
   test('abort cancels a queued request and kills a running one', async () => {
     const single = new SandboxPool({ sandboxScript, timeoutMs: 10_000 });
     try {
@@ -218,7 +208,8 @@ describe('sandbox processes', () => {
       const queued = new AbortController();
       const hang = runModule('for (;;) {}\n', single, roundTripPlan, running.signal);
       const waiting = runModule('exports.value = 1;\n', single, roundTripPlan, queued.signal);
-      await waitFor(() => single.processIds().length === 1);
+      // The running check's process, and the spare started ahead.
+      await waitFor(() => single.processIds().length === 2);
       const pid = single.processIds()[0];
       queued.abort();
       const cancelled = await waiting;
@@ -229,7 +220,7 @@ describe('sandbox processes', () => {
       assert.ok(Date.now() - started < 5000);
       assert.deepEqual(killed.report.findings.map((f) => [f.code, f.severity]), [['timeout', 'info']]);
       await assertHealthy(single);
-      assert.notDeepEqual(single.processIds(), [pid]);
+      assert.ok(!single.processIds().includes(pid));
     } finally {
       single.dispose();
     }
@@ -243,7 +234,7 @@ describe('sandbox processes', () => {
   test('dispose resolves pending requests as cancelled', async () => {
     const doomed = new SandboxPool({ sandboxScript, timeoutMs: 10_000 });
     const pending = runModule('for (;;) {}\n', doomed);
-    await waitFor(() => doomed.processIds().length === 1);
+    await waitFor(() => doomed.processIds().length >= 1);
     doomed.dispose();
     const { report } = await pending;
     assert.deepEqual(codes(report), ['timeout']);

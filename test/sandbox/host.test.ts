@@ -6,7 +6,7 @@ import { existsSync } from 'node:fs';
 import * as path from 'node:path';
 import { after, describe, test } from 'node:test';
 import { SandboxPool } from '../../server/src/sandbox/pool';
-import { roundTripPlan, tempProject } from './support';
+import { roundTripPlan, tempProject, waitFor } from './support';
 
 const project = tempProject();
 after(() => project.remove());
@@ -57,9 +57,15 @@ ${replyWith('outcomes')}`,
     const script = standIn('silent.js', 'if (request.code.includes("answer")) { ' + replyWith("['answered']") + ' }');
     const pool = new SandboxPool({ sandboxScript: script, timeoutMs: 200 });
     try {
-      const silent = await runOn(pool);
+      const running = runOn(pool);
+      // The silent check's process comes first; the spare started ahead second.
+      await waitFor(() => pool.processIds().length === 2);
+      const [silentPid] = pool.processIds();
+      const silent = await running;
       assert.deepEqual(silent.report.findings.map((f) => [f.code, f.severity]), [['timeout', 'error']]);
-      assert.deepEqual(pool.processIds(), []);
+      // Only the spare is left, never the silent process.
+      assert.equal(pool.processIds().length, 1);
+      assert.ok(!pool.processIds().includes(silentPid));
       const answered = await pool.run(await project.bundle("exports.answer = 1;\n", 'main.js'), roundTripPlan);
       assert.deepEqual(answered.console, ['answered']);
       assert.equal(pool.processIds().length, 1);
@@ -77,8 +83,9 @@ ${replyWith('outcomes')}`,
       assert.equal(report.findings[0].code, 'sandbox-crash');
       assert.match(report.findings[0].message, /exit code 7/);
       assert.match(report.findings[0].message, /something broke inside/);
-      // No restart loop: nothing runs until the next request asks for it.
-      assert.deepEqual(pool.processIds(), []);
+      // No restart loop: one spare waits, as after any check, and nothing else is started.
+      await new Promise((resolve) => setImmediate(resolve));
+      assert.equal(pool.processIds().length, 1);
     } finally {
       pool.dispose();
     }

@@ -1,10 +1,13 @@
-// The host side of the sandbox: a few warm, permission-restricted Node processes
-// running dist/sandbox.js, one request per pair at a time. Every run resolves
-// with a report; hangs, crashes, memory exhaustion and cancellation become findings.
-import { fork, type ChildProcess } from 'node:child_process';
+// The host side of the sandbox: permission-restricted Node processes running
+// dist/sandbox.js, each used for ONE check and then ended, with a spare started ahead
+// so a check does not wait for a process to boot. Every run resolves with a report;
+// hangs, crashes, memory exhaustion (heap or resident set) and cancellation become findings.
+import { spawn, type ChildProcess } from 'node:child_process';
 import * as path from 'node:path';
 import type { CheckPlan, Finding, PairReport } from '../engine/types';
 import { isRunnable, unrunnableBundleFindings, type Bundle } from './bundle';
+import { sandboxLaunch, type SandboxLaunch } from './launch';
+import { residentBytes } from './residentMemory';
 import type { SandboxReceipt, SandboxReply, SandboxRequest } from './protocol';
 import { cancelledFinding, errorReport, timeoutFinding } from './reports';
 import { locateInUserSource } from './sourceMap';
@@ -14,14 +17,13 @@ export interface SandboxPoolOptions {
   sandboxScript: string;
   /** Budget of one pair's whole plan, module load included. Default 5000. */
   timeoutMs?: number;
-  /** V8 old-space limit of each sandbox process. Default 512. */
+  /**
+   * Memory of each sandbox process, in MB: its resident set (read from outside, so memory outside
+   * the V8 heap counts) and its V8 old space. Default 512. A bare check uses about 50 MB.
+   */
   memoryMb?: number;
-  /** Most processes running at once. Default 1. */
+  /** Most checks running at once. Default 1. */
   size?: number;
-  /** A process is replaced after this many runs, so whatever a long life accumulates is let go. Default 200. */
-  recycleAfterRuns?: number;
-  /** A process whose resident memory after a run exceeds this is replaced. Default 150. */
-  recycleAboveRssMb?: number;
 }
 
 export interface SandboxResult {
@@ -32,6 +34,8 @@ export interface SandboxResult {
 
 /** Time past the budget before the host stops waiting: covers process start and message passing. */
 const killGraceMs = 1500;
+/** How often a running check's resident memory is read. */
+const memoryPollMs = 50;
 const stderrTailLength = 4000;
 const outOfMemoryPattern = /heap out of memory|Reached heap limit|Allocation failed/i;
 /**
@@ -60,9 +64,8 @@ interface Slot {
   child: ChildProcess;
   job: Job | null;
   timer: NodeJS.Timeout | null;
+  memoryWatch: NodeJS.Timeout | null;
   stderrTail: string;
-  /** Requests answered by this process. */
-  runs: number;
 }
 
 /** A handle that can stop keeping the event loop alive (child process, IPC channel, pipe). */
@@ -73,8 +76,7 @@ export class SandboxPool {
   private readonly timeoutMs: number;
   private readonly memoryMb: number;
   private readonly size: number;
-  private readonly recycleAfterRuns: number;
-  private readonly recycleAboveRssBytes: number;
+  private readonly launch: SandboxLaunch;
   private readonly slots: Slot[] = [];
   private readonly queue: Job[] = [];
   private nextId = 1;
@@ -85,8 +87,12 @@ export class SandboxPool {
     this.timeoutMs = options.timeoutMs ?? 5000;
     this.memoryMb = options.memoryMb ?? 512;
     this.size = Math.max(1, options.size ?? 1);
-    this.recycleAfterRuns = Math.max(1, options.recycleAfterRuns ?? 200);
-    this.recycleAboveRssBytes = (options.recycleAboveRssMb ?? 150) * 1024 * 1024;
+    this.launch = sandboxLaunch(this.sandboxScript, this.memoryMb, semiSpaceMb);
+  }
+
+  /** How the sandbox processes are kept from the network on this machine. */
+  get network(): SandboxLaunch['network'] {
+    return this.launch.network;
   }
 
   /** Runs one pair's plan on the bundle. Never rejects. */
@@ -121,15 +127,22 @@ export class SandboxPool {
 
   private dispatch(): void {
     while (this.queue.length > 0 && !this.disposed) {
-      const slot = this.slots.find((candidate) => candidate.job === null) ?? (this.slots.length < this.size ? this.spawn() : null);
-      if (!slot) return;
+      const busy = this.slots.filter((slot) => slot.job !== null).length;
+      if (busy >= this.size) break;
+      const slot = this.slots.find((candidate) => candidate.job === null) ?? this.spawn();
       this.start(slot, this.queue.shift()!);
     }
+    this.keepSpare();
+  }
+
+  /** One process started ahead and waiting, so the next check finds it booted. */
+  private keepSpare(): void {
+    if (this.disposed || this.slots.some((slot) => slot.job === null)) return;
+    setReferenced(this.spawn(), false);
   }
 
   private spawn(): Slot {
-    const child = fork(this.sandboxScript, [], {
-      execArgv: this.sandboxFlags(),
+    const child = spawn(this.launch.command, this.launch.args, {
       // A minimal environment: no NODE_OPTIONS can slip flags in, and no secrets are in reach.
       env: process.env.SystemRoot ? { SystemRoot: process.env.SystemRoot } : {},
       cwd: path.dirname(this.sandboxScript),
@@ -137,7 +150,7 @@ export class SandboxPool {
       stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
       serialization: 'json',
     });
-    const slot: Slot = { child, job: null, timer: null, stderrTail: '', runs: 0 };
+    const slot: Slot = { child, job: null, timer: null, memoryWatch: null, stderrTail: '' };
     child.stderr?.setEncoding('utf8');
     child.stderr?.on('data', (text: string) => {
       slot.stderrTail = (slot.stderrTail + text).slice(-stderrTailLength);
@@ -154,20 +167,6 @@ export class SandboxPool {
     return slot;
   }
 
-  /** Node's permission model: read only the sandbox script; no writes, child processes or workers. */
-  private sandboxFlags(): string[] {
-    const major = Number(process.versions.node.split('.')[0]);
-    return [
-      major >= 22 ? '--permission' : '--experimental-permission',
-      `--allow-fs-read=${this.sandboxScript}`,
-      '--no-warnings',
-      `--max-old-space-size=${this.memoryMb}`,
-      // vm.Script still compiles our code; this only stops eval and new Function in the host realm.
-      '--disallow-code-generation-from-strings',
-      `--max-semi-space-size=${semiSpaceMb}`,
-    ];
-  }
-
   private start(slot: Slot, job: Job): void {
     slot.job = job;
     setReferenced(slot, true);
@@ -176,6 +175,16 @@ export class SandboxPool {
       this.settle(job, resultOf(errorReport([timeoutFinding(this.timeoutMs)], this.timeoutMs)));
       this.dispatch();
     }, this.timeoutMs + killGraceMs);
+    // Polled from outside: a check busy in user code cannot be asked. Below the heap cap's own limit,
+    // so a runaway allocation ends here, before V8's slow collections near its limit.
+    const limitBytes = this.memoryMb * 1024 * 1024;
+    slot.memoryWatch = setInterval(() => {
+      const resident = slot.child.pid === undefined ? null : residentBytes(slot.child.pid);
+      if (resident === null || resident <= limitBytes || slot.job !== job) return;
+      this.retire(slot);
+      this.settle(job, resultOf(errorReport([this.memoryFinding(`its resident memory passed ${Math.round(limitBytes / 2 ** 20)} MB`)])));
+      this.dispatch();
+    }, memoryPollMs);
     const request: SandboxRequest = { id: job.id, code: job.bundle.code, plan: job.plan, timeoutMs: this.timeoutMs };
     slot.child.send(request, (error) => {
       if (!error || slot.job !== job) return;
@@ -193,11 +202,8 @@ export class SandboxPool {
       return;
     }
     if (!isReplyTo(job.id, message)) return;
-    this.release(slot);
-    slot.runs++;
-    // An idle process is replaced between runs, never during one; the next run starts a fresh one.
-    const rssBytes = typeof message.rssBytes === 'number' ? message.rssBytes : 0;
-    if (slot.runs >= this.recycleAfterRuns || rssBytes > this.recycleAboveRssBytes) this.retire(slot);
+    // One check per process: it ends itself after replying, and is killed here in case it does not.
+    this.retire(slot);
     this.settle(job, { report: withUserLocations(message.report, job.bundle), console: message.console, consoleTruncated: message.consoleTruncated });
     this.dispatch();
   }
@@ -227,10 +233,12 @@ export class SandboxPool {
     this.dispatch();
   }
 
-  /** Marks a slot idle after a reply. */
+  /** Stops watching a slot's job. */
   private release(slot: Slot): void {
     if (slot.timer) clearTimeout(slot.timer);
+    if (slot.memoryWatch) clearInterval(slot.memoryWatch);
     slot.timer = null;
+    slot.memoryWatch = null;
     slot.job = null;
     setReferenced(slot, false);
   }
@@ -252,15 +260,17 @@ export class SandboxPool {
     job.resolve(result);
   }
 
+  private memoryFinding(how = ''): Finding {
+    return {
+      code: 'memory-limit',
+      severity: 'error',
+      subject: 'objective',
+      message: `The code used more memory than the sandbox allows (${this.memoryMb} MB${how ? `; ${how}` : ''}), so the sandbox was stopped.`,
+    };
+  }
+
   private crashFinding(code: number | null, signal: NodeJS.Signals | null, stderrTail: string): Finding {
-    if (outOfMemoryPattern.test(stderrTail)) {
-      return {
-        code: 'memory-limit',
-        severity: 'error',
-        subject: 'objective',
-        message: `The code used more memory than the sandbox allows (${this.memoryMb} MB), so the sandbox was stopped.`,
-      };
-    }
+    if (outOfMemoryPattern.test(stderrTail)) return this.memoryFinding();
     const how = signal ? `signal ${signal}` : code === null ? 'an error' : `exit code ${code}`;
     const lastLine = stderrTail.trim().split('\n').pop()?.trim();
     return {

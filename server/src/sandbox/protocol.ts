@@ -11,7 +11,6 @@ export interface SandboxRequest {
   timeoutMs: number;
 }
 
-/** Sandbox → host: the one result of a request. */
 /**
  * Sandbox → host, first thing on receiving a request: the request reached a live process.
  * A process that dies before this was already dead when the request was sent (killed from
@@ -22,12 +21,11 @@ export interface SandboxReceipt {
   received: true;
 }
 
+/** Sandbox → host: the one result of the process's one request; the process then ends. */
 export interface SandboxReply {
   id: number;
   report: PairReport;
   /** Captured user console output, already truncated. */
   console: string[];
   consoleTruncated: boolean;
-  /** Resident set size of the sandbox process after the run, so the host can recycle a grown process. */
-  rssBytes?: number;
 }

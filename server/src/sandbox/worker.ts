@@ -1,7 +1,10 @@
 // Entry of dist/sandbox.js: the separate, permission-restricted Node process that
-// runs user code. Each request gets a fresh, bare vm context; the process stays warm.
+// runs user code. It serves ONE request, in a fresh, bare vm context, and exits right
+// after its reply, so no state and no user callback outlives the check.
 // Only strings cross between this realm and the context, never host objects,
-// because any host object leads back to `process` through `.constructor.constructor`.
+// because any host object leads back to `process` through `.constructor.constructor`;
+// and the host never reads a property of a user value (a stack, a message) in its own realm,
+// where a user-set getter or Error.prepareStackTrace would run with host objects in reach.
 import * as vm from 'node:vm';
 import { types } from 'node:util';
 import runnerSource from 'slopecheck:in-context-runner';
@@ -23,6 +26,7 @@ const runnerScript = new vm.Script(`(function (${realmGlobals}) {\n${runnerSourc
   filename: 'slopecheck-runner.js',
 });
 // Lock the runner before user code runs, so the module cannot swap the code that writes its report.
+// WeakRef and FinalizationRegistry are taken away: their callbacks would run outside every deadline.
 const prepareScript = new vm.Script(
   // The value is restated: vm's global interceptor loses it when a descriptor leaves it out.
   `(() => {
@@ -30,10 +34,11 @@ const prepareScript = new vm.Script(
     Object.defineProperty(globalThis, '__slopecheckRunner', { value: runner, writable: false, configurable: false });
     runner.installConsole();
     runner.installProcessStandIn();
+    delete globalThis.WeakRef;
+    delete globalThis.FinalizationRegistry;
   })();`,
   { filename: 'slopecheck-prepare.js' },
 );
-const takeConsoleScript = new vm.Script('__slopecheckRunner.takeConsole()', { filename: 'slopecheck-console.js' });
 
 class DeadlinePassed extends Error {}
 
@@ -46,10 +51,17 @@ function handle(request: SandboxRequest): SandboxReply {
     // Promise jobs run inside each evaluation, so they fall under its timeout.
     microtaskMode: 'afterEvaluate',
   });
-  const runUntilDeadline = (script: vm.Script): unknown => {
+  // A dynamic import() rejects with an error of the context's own realm: an error made in this
+  // realm would carry this realm's Function.prototype into user code.
+  const ContextError = vm.runInContext('Error', context) as ErrorConstructor;
+  const importModuleDynamically = (() => {
+    throw new ContextError('import() is not available in the sandbox: it runs only self-contained modules.');
+  }) as unknown as vm.ScriptOptions['importModuleDynamically'];
+  const script = (code: string, filename: string, lineOffset = 0) => new vm.Script(code, { filename, lineOffset, importModuleDynamically });
+  const runUntilDeadline = (compiled: vm.Script): unknown => {
     const remaining = deadline - Date.now();
     if (remaining <= 0) throw new DeadlinePassed();
-    return script.runInContext(context, { timeout: remaining, displayErrors: false });
+    return compiled.runInContext(context, { timeout: remaining, displayErrors: false });
   };
   let report: PairReport;
   try {
@@ -57,22 +69,20 @@ function handle(request: SandboxRequest): SandboxReply {
     runUntilDeadline(prepareScript);
     // The wrapper sits on its own line; lineOffset -1 keeps stack lines equal to bundle lines.
     const factory = `(function (${realmGlobals}) { return function (exports, module, require) {\n${request.code}\n}; })(${realmGlobals})`;
-    const loadScript = new vm.Script(`__slopecheckRunner.loadModule(${factory});`, {
-      filename: bundleScriptName,
-      lineOffset: -1,
-    });
-    const loadOutcome = readReport(runUntilDeadline(loadScript), true);
+    const loadOutcome = readReport(runUntilDeadline(script(`__slopecheckRunner.loadModule(${factory});`, bundleScriptName, -1)), true);
     if (loadOutcome) {
       report = loadOutcome;
     } else {
-      const runScript = new vm.Script(`__slopecheckRunner.runLoaded(${JSON.stringify(JSON.stringify(request.plan))});`, { filename: 'slopecheck-run.js' });
-      report = readReport(runUntilDeadline(runScript), false) ?? internalError('the runner returned no report');
+      const run = script(`__slopecheckRunner.runLoaded(${JSON.stringify(JSON.stringify(request.plan))});`, 'slopecheck-run.js');
+      report = readReport(runUntilDeadline(run), false) ?? internalError('the runner returned no report');
     }
   } catch (error) {
-    report = isTimeout(error) ? errorReport([timeoutFinding(request.timeoutMs)]) : internalError(describeHostError(error));
+    // Only our own timeout is told apart; anything else thrown out of the context is user-made
+    // and is not looked into here.
+    report = isTimeout(error) ? errorReport([timeoutFinding(request.timeoutMs)]) : internalError('the check ended with an error thrown from user code');
   }
   report.elapsedMs = report.elapsedMs || Date.now() - started;
-  return { id: request.id, report, ...collectConsole(context), rssBytes: process.memoryUsage.rss() };
+  return { id: request.id, report, ...collectConsole(context, script) };
 }
 
 /** Parses a runner answer; `allowNull` accepts the 'null' of a successful module load. */
@@ -86,9 +96,9 @@ function readReport(answer: unknown, allowNull: boolean): PairReport | null {
   return internalError('the runner answered with something other than a report');
 }
 
-function collectConsole(context: vm.Context): Pick<SandboxReply, 'console' | 'consoleTruncated'> {
+function collectConsole(context: vm.Context, script: (code: string, filename: string) => vm.Script): Pick<SandboxReply, 'console' | 'consoleTruncated'> {
   try {
-    const answer = takeConsoleScript.runInContext(context, { timeout: consoleGraceMs, displayErrors: false });
+    const answer = script('__slopecheckRunner.takeConsole()', 'slopecheck-console.js').runInContext(context, { timeout: consoleGraceMs, displayErrors: false });
     if (typeof answer === 'string') {
       const parsed = JSON.parse(answer) as { lines?: unknown; truncated?: unknown };
       if (Array.isArray(parsed.lines) && parsed.lines.every((line) => typeof line === 'string')) {
@@ -101,23 +111,14 @@ function collectConsole(context: vm.Context): Pick<SandboxReply, 'console' | 'co
   return { console: [], consoleTruncated: false };
 }
 
-function isTimeout(error: unknown): boolean {
-  return error instanceof DeadlinePassed || ownString(error, 'code') === 'ERR_SCRIPT_EXECUTION_TIMEOUT';
-}
-
 /**
- * An own data property of a native error, read without running any getter: vm
- * creates its timeout error in the context's realm, where user code could have
- * planted accessors that would run here, outside every timeout.
+ * vm's own timeout error, told by its `code`, an own data property read without running
+ * any getter (a Proxy is no native error, so no trap runs either).
  */
-function ownString(error: unknown, key: 'code' | 'stack'): string | undefined {
-  if (!types.isNativeError(error)) return undefined;
-  const value = Object.getOwnPropertyDescriptor(error, key)?.value;
-  return typeof value === 'string' ? value : undefined;
-}
-
-function describeHostError(error: unknown): string {
-  return ownString(error, 'stack') ?? 'a value thrown from user code';
+function isTimeout(error: unknown): boolean {
+  if (error instanceof DeadlinePassed) return true;
+  if (!types.isNativeError(error)) return false;
+  return Object.getOwnPropertyDescriptor(error, 'code')?.value === 'ERR_SCRIPT_EXECUTION_TIMEOUT';
 }
 
 function internalError(what: string): PairReport {
@@ -141,19 +142,25 @@ process.abort = refuse('process.abort');
 process.kill = refuse('process.kill');
 (process as unknown as ExitingProcess).reallyExit = refuse('process.reallyExit');
 
-process.on('uncaughtException', (error) => {
-  process.stderr.write(`slopecheck sandbox: uncaught exception: ${describeHostError(error)}\n`);
+// Never look into what user code threw or rejected with: fixed words only.
+process.on('uncaughtException', () => {
+  process.stderr.write('slopecheck sandbox: uncaught exception\n');
 });
-process.on('unhandledRejection', (reason) => {
-  process.stderr.write(`slopecheck sandbox: unhandled rejection: ${describeHostError(reason)}\n`);
+process.on('unhandledRejection', () => {
+  process.stderr.write('slopecheck sandbox: unhandled rejection\n');
 });
 process.on('disconnect', () => reallyExit(0));
+// One request per process: the first is served, and the process ends once its reply is sent.
+let served = false;
 process.on('message', (message: unknown) => {
+  if (served) return;
   if (!isRequest(message)) {
     process.stderr.write('slopecheck sandbox: ignored a malformed request\n');
     return;
   }
+  served = true;
   const receipt: SandboxReceipt = { id: message.id, received: true };
   process.send?.(receipt);
-  process.send?.(handle(message));
+  const reply = handle(message);
+  process.send?.(reply, () => reallyExit(0));
 });

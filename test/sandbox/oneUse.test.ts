@@ -1,0 +1,75 @@
+// One check per sandbox process: every run gets a process that has run no other user code,
+// the process ends after its reply, a spare is started ahead, and nothing is left behind.
+import assert from 'node:assert/strict';
+import { after, describe, test } from 'node:test';
+import { SandboxPool } from '../../server/src/sandbox/pool';
+import { sandboxScript } from '../support/paths';
+import { isAlive } from '../support/processes';
+import { planFor, roundTripPlan, tempProject, waitFor } from './support';
+
+const project = tempProject();
+after(() => project.remove());
+
+describe('one check per sandbox process', () => {
+  test('each run gets a fresh process, which ends after its reply; a spare waits for the next', async () => {
+    const pool = new SandboxPool({ sandboxScript });
+    try {
+      const bundle = await project.bundle('export const value = 1;\n');
+      const used: number[] = [];
+      for (let k = 0; k < 3; k++) {
+        const [ready] = pool.processIds();
+        const { report } = await pool.run(bundle, roundTripPlan);
+        // The runner's answer for a value no module has: proof the run went through a sandbox.
+        assert.deepEqual(report.findings.map((f) => f.code), ['unresolved-target']);
+        if (ready !== undefined) used.push(ready);
+        // After the reply: exactly one process is alive, the spare for the next check.
+        await waitFor(() => pool.processIds().length === 1);
+      }
+      assert.equal(new Set(used).size, used.length, 'no process served two checks');
+      await waitFor(() => used.every((pid) => !isAlive(pid)));
+    } finally {
+      const left = pool.processIds();
+      pool.dispose();
+      await waitFor(() => left.every((pid) => !isAlive(pid)));
+    }
+  });
+
+  test('state of one check never reaches the next: a global set by one module is gone for the next', async () => {
+    const pool = new SandboxPool({ sandboxScript });
+    try {
+      const setter = await project.bundle('globalThis.leftBehind = 42;\nexport const objective = (x) => x[0] * x[0];\nexport const gradient = (x) => [2 * x[0]];\n', 'setter.js');
+      const reader = await project.bundle(
+        'export const objective = (x) => (typeof globalThis.leftBehind === "undefined" ? x[0] * x[0] : NaN);\nexport const gradient = (x) => [2 * x[0]];\n',
+        'reader.js',
+      );
+      const plan = planFor({ probes: [[1.5]], dimension: 1 });
+      assert.equal((await pool.run(setter, plan)).report.status, 'pass');
+      assert.equal((await pool.run(reader, plan)).report.status, 'pass');
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  test('work a module leaves behind cannot outlive its check: no FinalizationRegistry or WeakRef, and the next check is on time', async () => {
+    const pool = new SandboxPool({ sandboxScript, timeoutMs: 3000 });
+    try {
+      const lingering = await project.bundle(
+        [
+          'console.log(typeof FinalizationRegistry, typeof WeakRef);',
+          'Error.prepareStackTrace = () => { for (;;) {} };',
+          'export const objective = (x) => x[0] * x[0];',
+          'export const gradient = (x) => [2 * x[0]];',
+        ].join('\n'),
+        'lingering.js',
+      );
+      const plan = planFor({ probes: [[1.5]], dimension: 1 });
+      const first = await pool.run(lingering, plan);
+      assert.deepEqual(first.console, ['undefined undefined']);
+      // In a reused process the spinning hook would have turned this into a false timeout.
+      const next = await pool.run(await project.bundle('export const objective = (x) => x[0] ** 2;\nexport const gradient = (x) => [2 * x[0]];\n', 'next.js'), plan);
+      assert.equal(next.report.status, 'pass', JSON.stringify(next.report.findings));
+    } finally {
+      pool.dispose();
+    }
+  });
+});
