@@ -198,4 +198,16 @@ describe('in-context runner', () => {
     assert.deepEqual(wrong.report.findings.map((f) => [f.code, f.recipeKey]), [['unresolved-target', 'bad']]);
     assert.match(wrong.report.findings[0].message, /The starting point 'bad' is an object with keys a, not a number\[\] or Float64Array/);
   });
+
+  test('a huge thrown message and stack are cut inside the realm, before they cross to the host', () => {
+    const huge = new Error('x'.repeat(5_000_000));
+    huge.stack = 'y'.repeat(5_000_000);
+    const exports = { objective: () => { throw huge; }, gradient: () => [0, 0] };
+    const plan = planFor();
+    const report = JSON.parse(run(scopeOf(exports), JSON.stringify(plan))) as PairReport;
+    const finding = report.findings.find((f) => f.code === 'runtime-error')!;
+    assert.ok(finding.message.length < 2_100, `message of ${finding.message.length} characters`);
+    assert.match(finding.message, /characters cut\)$/);
+    assert.ok((finding.stack ?? '').length < 8_100);
+  });
 });

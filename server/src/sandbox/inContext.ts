@@ -64,7 +64,7 @@ export function run(scope: ModuleScope, planJson: string, check: typeof checkPai
     report = errorReport([thrownFinding(thrown, 'objective', 'The check failed unexpectedly')], now() - started);
   }
   try {
-    return stringify(report);
+    return stringify(capped(report));
   } catch (thrown) {
     return stringify(errorReport([thrownFinding(thrown, 'objective', 'The report could not be serialised')], now() - started));
   }
@@ -170,6 +170,20 @@ function resolveHost(read: (key: string) => Read, host: NonNullable<CheckPlan['r
   } catch (thrown) {
     return { finding: { ...thrownFinding(thrown, 'recipe', `Constructing 'new ${host.key}()' threw`), recipeKey: host.key } };
   }
+}
+
+// What user code can make long — messages and stacks of what it throws — is cut here, inside the
+// context, so a huge string never crosses to the host (the host validates and caps again).
+const maxMessage = 2_000;
+const maxStack = 8_000;
+const cut = (text: string, max: number) => (text.length > max ? `${text.slice(0, max)}… (${text.length - max} more characters cut)` : text);
+
+function capped(report: PairReport): PairReport {
+  for (const finding of report.findings) {
+    finding.message = cut(String(finding.message), maxMessage);
+    if (typeof finding.stack === 'string') finding.stack = cut(finding.stack, maxStack);
+  }
+  return report;
 }
 
 /** A value of the module through its scope hook; a throw (TDZ, a getter, a missing name) becomes a finding. */
