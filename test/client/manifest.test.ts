@@ -58,9 +58,16 @@ describe('settings', () => {
     });
   }
 
-  test('settings that change how code is executed cannot be set by a workspace', () => {
+  // VS Code reads a `machine` setting from user (or remote machine) settings only; `machine-overridable`
+  // and the wider scopes let workspace and folder settings override it.
+  test('settings that change how code is executed cannot be set by a workspace, and say so', () => {
     const executing = ['timeoutMs', 'memoryMb'];
-    for (const key of executing) assert.equal(properties[`slopecheck.${key}`].scope, 'machine-overridable', key);
+    for (const key of executing) {
+      const schema = properties[`slopecheck.${key}`];
+      assert.equal(schema.scope, 'machine', key);
+      assert.match(schema.markdownDescription ?? '', /Only your user settings/, key);
+      assert.match(schema.markdownDescription ?? '', /workspace or folder settings is ignored/, key);
+    }
   });
 });
 

@@ -5,6 +5,7 @@ import assert from 'node:assert/strict';
 import { existsSync } from 'node:fs';
 import * as path from 'node:path';
 import { after, describe, test } from 'node:test';
+import { emptyReport } from '../../server/src/engine/emptyReport';
 import { SandboxPool } from '../../server/src/sandbox/pool';
 import { roundTripPlan, tempProject, waitFor } from './support';
 
@@ -16,9 +17,11 @@ function standIn(name: string, onRequest: string): string {
   return project.write(name, `process.on('message', (request) => {\n${onRequest}\n});\n`);
 }
 
+/** A complete, empty report, as the host's validation requires (emptyReport's shape). */
+const passReport = JSON.stringify(emptyReport('pass'));
+
 /** Stand-in reply carrying `lines` as console output. */
-const replyWith = (lines: string) =>
-  `process.send({ id: request.id, report: { status: 'pass', findings: [] }, console: ${lines}, consoleTruncated: false });`;
+const replyWith = (lines: string) => `process.send({ id: request.id, report: ${passReport}, console: ${lines}, consoleTruncated: false });`;
 
 async function runOn(pool: SandboxPool) {
   return pool.run(await project.bundle('exports.value = 1;\n', 'main.js'), roundTripPlan);
@@ -103,8 +106,21 @@ ${replyWith('outcomes')}`,
     }
   });
 
+  test('a malformed report is refused as a whole: sandbox-crash saying what was wrong, and nothing of it used', async () => {
+    const script = standIn('malformed.js', "process.send({ id: request.id, report: { status: '__proto__', findings: [null] }, console: ['from a bad report'], consoleTruncated: false });");
+    const pool = new SandboxPool({ sandboxScript: script });
+    try {
+      const { report, console: lines } = await runOn(pool);
+      assert.deepEqual(report.findings.map((f) => f.code), ['sandbox-crash']);
+      assert.match(report.findings[0].message, /malformed report/);
+      assert.deepEqual(lines, []);
+    } finally {
+      pool.dispose();
+    }
+  });
+
   test('replies to another request id are ignored', async () => {
-    const script = standIn('forger.js', "process.send({ id: request.id + 1, report: { status: 'pass', findings: [] }, console: ['forged'], consoleTruncated: false });");
+    const script = standIn('forger.js', `process.send({ id: request.id + 1, report: ${passReport}, console: ['forged'], consoleTruncated: false });`);
     const pool = new SandboxPool({ sandboxScript: script, timeoutMs: 100 });
     try {
       const { report, console: lines } = await runOn(pool);

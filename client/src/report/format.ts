@@ -11,7 +11,8 @@ export function isFiniteNumber(x: unknown): x is number {
 
 /** A value to compare: up to 6 significant digits, exponent notation when very large or small. */
 export function formatFigure(x: Figure): string {
-  if (x === null || x === undefined) return '—';
+  // A report that is not what its type says (a string where a number belongs) shows nothing.
+  if (typeof x !== 'number') return '—';
   if (Number.isNaN(x)) return 'NaN';
   if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
   if (x === 0) return '0';
@@ -46,7 +47,11 @@ export function formatDuration(ms: Figure): string {
   return ms < 1000 ? `${Math.round(ms)} ms` : `${(ms / 1000).toFixed(2)} s`;
 }
 
-/** Escapes text for HTML and XML content and attribute values. */
-export function escapeMarkup(text: string): string {
-  return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+/**
+ * Escapes a value for HTML and XML content and for double- or single-quoted attribute values.
+ * Takes any value: numbers and words from the report reach the page through here too, as a
+ * report that crossed processes may hold text where its type says number or enum.
+ */
+export function escapeMarkup(value: unknown): string {
+  return String(value).replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }

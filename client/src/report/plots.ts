@@ -1,7 +1,8 @@
 // The report's four plots as SVG strings: pure functions of the report's data,
 // no DOM and no VS Code, so they run under node's test runner as they run in the webview.
+// Every value of the report enters the SVG through `esc` (or `coord`, which prints only numbers).
 import type { DescentRun, ProbeReport, SmoothnessEstimate, StepStudy } from '../../../server/src/engine/types';
-import { escapeMarkup, formatBound, formatFigure, isFiniteNumber } from './format';
+import { escapeMarkup as esc, formatBound, formatFigure, isFiniteNumber } from './format';
 import {
   coord,
   defaultBox,
@@ -69,7 +70,7 @@ export function gradientPlot(probe: ProbeReport | undefined, probeIndex = 0): st
       const top = coord(project(y, numerical + e.errorBound, ys));
       const bottom = coord(project(y, numerical - e.errorBound, ys));
       parts.push(
-        `<g class="error-bar" data-bound="${e.errorBound}"><line x1="${coord(nx)}" x2="${coord(nx)}" y1="${top}" y2="${bottom}"/>` +
+        `<g class="error-bar" data-bound="${esc(e.errorBound)}"><line x1="${coord(nx)}" x2="${coord(nx)}" y1="${top}" y2="${bottom}"/>` +
           `<line x1="${coord(nx - 3)}" x2="${coord(nx + 3)}" y1="${top}" y2="${top}"/><line x1="${coord(nx - 3)}" x2="${coord(nx + 3)}" y1="${bottom}" y2="${bottom}"/></g>`,
       );
     }
@@ -80,7 +81,7 @@ export function gradientPlot(probe: ProbeReport | undefined, probeIndex = 0): st
     if (analytic !== null) parts.push(`<circle class="analytic" cx="${coord(cx - offset)}" cy="${coord(project(y, analytic, ys))}" r="3.5"/>`);
     const name = byComponent ? `component ${e.index}` : `direction ${e.index + 1}`;
     const hover = `${name}: analytic ${formatFigure(e.analytic)}, numerical ${formatFigure(e.numerical)} ± ${formatBound(e.errorBound)}${e.mismatch ? ' (mismatch)' : ''}`;
-    return `<g class="component${e.mismatch ? ' mismatch' : ''}" data-index="${e.index}"><title>${escapeMarkup(hover)}</title>${parts.join('')}</g>`;
+    return `<g class="component${e.mismatch ? ' mismatch' : ''}" data-index="${esc(e.index)}"><title>${esc(hover)}</title>${parts.join('')}</g>`;
   });
 
   const mismatched = entries.filter((e) => e.mismatch).map((e) => e.index);
@@ -121,15 +122,15 @@ export function stepErrorPlot(study: StepStudy | null | undefined): string {
   const dots = points
     .map((p) => {
       const [px, py] = at(p);
-      return `<circle class="step-point" data-step="${p[0]}" data-error="${p[1]}" cx="${coord(px)}" cy="${coord(py)}" r="3"/>`;
+      return `<circle class="step-point" data-step="${esc(p[0])}" data-error="${esc(p[1])}" cx="${coord(px)}" cy="${coord(py)}" r="3"/>`;
     })
     .join('');
   let marker = '';
   if (chosen !== null) {
     const px = coord(project(x, chosen, xs));
     marker =
-      `<g class="chosen-step" data-step="${chosen}"><line x1="${px}" x2="${px}" y1="${coord(ys[0])}" y2="${coord(ys[1])}"/>` +
-      `<text x="${px}" y="${coord(ys[1] - 4)}" text-anchor="middle">chosen h = ${escapeMarkup(formatBound(chosen))}</text></g>`;
+      `<g class="chosen-step" data-step="${esc(chosen)}"><line x1="${px}" x2="${px}" y1="${coord(ys[0])}" y2="${coord(ys[1])}"/>` +
+      `<text x="${px}" y="${coord(ys[1] - 4)}" text-anchor="middle">chosen h = ${esc(formatBound(chosen))}</text></g>`;
   }
   const where = study.component >= 0 ? `component ${study.component}` : 'a random direction';
   const dropped = study.steps.length - points.length;
@@ -162,7 +163,7 @@ export function eigenvaluePlot(probes: ProbeReport[], smoothness: SmoothnessEsti
   const dots = perProbe
     .flatMap((values, i) =>
       values.map(
-        (v) => `<circle class="ritz" data-probe="${i}" data-value="${v}" cx="${coord(project(x, i, xs))}" cy="${coord(project(y, v, ys))}" r="3.5"/>`,
+        (v) => `<circle class="ritz" data-probe="${i}" data-value="${esc(v)}" cx="${coord(project(x, i, xs))}" cy="${coord(project(y, v, ys))}" r="3.5"/>`,
       ),
     )
     .join('');
@@ -170,8 +171,8 @@ export function eigenvaluePlot(probes: ProbeReport[], smoothness: SmoothnessEsti
     if (value === null) return '';
     const py = coord(project(y, value, ys));
     return (
-      `<g class="${className}" data-value="${value}"><line x1="${coord(xs[0])}" x2="${coord(xs[1])}" y1="${py}" y2="${py}"/>` +
-      `<text x="${coord(xs[1] - 4)}" y="${py}" dy="-0.4em" text-anchor="end">${escapeMarkup(`${label} = ${formatFigure(value)}`)}</text></g>`
+      `<g class="${esc(className)}" data-value="${esc(value)}"><line x1="${coord(xs[0])}" x2="${coord(xs[1])}" y1="${py}" y2="${py}"/>` +
+      `<text x="${coord(xs[1] - 4)}" y="${py}" dy="-0.4em" text-anchor="end">${esc(`${label} = ${formatFigure(value)}`)}</text></g>`
     );
   };
   const description =
@@ -213,8 +214,8 @@ export function descentPlot(runs: DescentRun[] | undefined): string {
       `<circle class="run-end" cx="${coord(end[0])}" cy="${coord(end[1])}" r="3"/>` +
       (diverged ? `<text class="diverged-mark" x="${coord(end[0] + 5)}" y="${coord(end[1])}" dy="0.32em">overflow</text>` : '');
     return (
-      `<g class="run run-${run.label}" data-run="${run.label}" data-rate="${run.rate}" data-decreased="${run.decreased}">` +
-      `<title>${escapeMarkup(`${runNames[run.label]}: α = ${formatFigure(run.rate)}, f ${run.decreased ? 'went down' : 'did not go down'}`)}</title>` +
+      `<g class="run run-${esc(run.label)}" data-run="${esc(run.label)}" data-rate="${esc(run.rate)}" data-decreased="${esc(run.decreased)}">` +
+      `<title>${esc(`${runNames[run.label]}: α = ${formatFigure(run.rate)}, f ${run.decreased ? 'went down' : 'did not go down'}`)}</title>` +
       polylines(points, 'run-line') +
       endMark +
       '</g>'

@@ -1,6 +1,8 @@
 // The report's content as an HTML string: the verdict, the caution, the figures,
 // the four plots and the per-component table. Pure, so it is tested under node;
-// the webview script only inserts it. Every text from the user's code is escaped.
+// the webview script only inserts it. Every value of the report is escaped where it
+// enters the markup, words and numbers too: the report crossed two processes, and the
+// first of them ran the user's code.
 import type { PairReport, ProbeReport } from '../../../server/src/engine/types';
 import type { PairReportResult } from '../../../server/src/shared/protocol';
 import { describeDiagnosis, verdictWords } from '../../../server/src/shared/wording';
@@ -20,7 +22,7 @@ export function renderReport(result: PairReportResult): string {
   const pairName = result.gradient ? `${result.objective} / ${result.gradient}` : result.objective;
   return [
     `<header class="report-header"><h1>${esc(pairName)}</h1>`,
-    `<span class="verdict verdict-${report.status}" data-status="${report.status}">${verdicts[report.status]}</span>`,
+    `<span class="verdict verdict-${esc(report.status)}" data-status="${esc(report.status)}">${esc(verdicts[report.status])}</span>`,
     '<div class="actions"><button type="button" data-action="check-again">Check again</button>',
     '<button type="button" data-action="copy-json">Copy as JSON</button></div></header>',
     `<p class="caution" role="note">${esc(localEstimateCaution)}</p>`,
@@ -34,8 +36,17 @@ export function renderReport(result: PairReportResult): string {
     '</section>',
     worst >= 0 ? `<section class="components"><h2>Derivatives at probe ${worst + 1}</h2>${componentTable(report.probes[worst])}</section>` : '',
     consoleSection(result.console),
-    `<footer class="settings">Checked with seed ${result.settings.seed}, ${result.settings.probeCount} random probes when none is given, time limit ${formatDuration(result.settings.timeoutMs)}.</footer>`,
+    `<footer class="settings">${esc(`Checked with seed ${result.settings.seed}, ${result.settings.probeCount} random probes when none is given, time limit ${formatDuration(result.settings.timeoutMs)}.`)}</footer>`,
   ].join('');
+}
+
+/** The report, or, for a report of a shape this page cannot read, a line saying so instead of a blank page. */
+export function renderReportOrFailure(result: PairReportResult): string {
+  try {
+    return renderReport(result);
+  } catch (error) {
+    return renderFailure(result?.objective ?? 'this pair', `its report could not be shown (${String(error)})`);
+  }
 }
 
 export function renderLoading(objective: string): string {
@@ -53,7 +64,7 @@ function plotFigure(svg: string, caption: string): string {
 function findingsList(report: PairReport): string {
   if (report.findings.length === 0) return '';
   const items = report.findings
-    .map((f) => `<li class="finding severity-${f.severity}" data-code="${esc(f.code)}"><code>${esc(f.code)}</code> ${esc(f.message)}</li>`)
+    .map((f) => `<li class="finding severity-${esc(f.severity)}" data-code="${esc(f.code)}"><code>${esc(f.code)}</code> ${esc(f.message)}</li>`)
     .join('');
   return `<section class="findings"><h2>Findings</h2><ul>${items}</ul></section>`;
 }
@@ -88,8 +99,9 @@ function componentTable(probe: ProbeReport): string {
     const rows = probe.components
       .map(
         (c) =>
-          `<tr class="${c.mismatch ? 'mismatch' : ''}" data-index="${c.index}"><td>${c.index}</td><td>${formatFigure(c.analytic)}</td>` +
-          `<td>${formatFigure(c.numerical)}</td><td>${formatBound(c.errorBound)}</td><td>${formatBound(c.relError)}</td>${mark(c.mismatch)}</tr>`,
+          `<tr class="${c.mismatch ? 'mismatch' : ''}" data-index="${esc(c.index)}">` +
+          cells([c.index, formatFigure(c.analytic), formatFigure(c.numerical), formatBound(c.errorBound), formatBound(c.relError)]) +
+          `${mark(c.mismatch)}</tr>`,
       )
       .join('');
     return `<table class="component-table">${head('component')}<tbody>${rows}</tbody></table>`;
@@ -97,11 +109,17 @@ function componentTable(probe: ProbeReport): string {
   const rows = probe.directions
     .map(
       (d, i) =>
-        `<tr class="${d.mismatch ? 'mismatch' : ''}" data-index="${i}"><td>${i + 1}</td><td>${formatFigure(d.analytic)}</td>` +
-        `<td>${formatFigure(d.numerical)}</td><td>${formatBound(d.errorBound)}</td><td></td>${mark(d.mismatch)}</tr>`,
+        `<tr class="${d.mismatch ? 'mismatch' : ''}" data-index="${i}">` +
+        cells([i + 1, formatFigure(d.analytic), formatFigure(d.numerical), formatBound(d.errorBound), '']) +
+        `${mark(d.mismatch)}</tr>`,
     )
     .join('');
   return `<table class="component-table">${head('direction')}<tbody>${rows}</tbody></table>`;
+}
+
+/** Table cells, each value escaped. */
+function cells(values: unknown[]): string {
+  return values.map((value) => `<td>${esc(value)}</td>`).join('');
 }
 
 function consoleSection(lines: string[]): string {

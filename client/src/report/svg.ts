@@ -1,7 +1,8 @@
 // SVG building blocks for the report's plots: axes, scales, frame, legend.
 // Pure string building, so plots are testable under node. Colours come from CSS
-// classes that the report's stylesheet maps to the editor theme.
-import { escapeMarkup, formatPowerOfTen, formatTick, isFiniteNumber } from './format';
+// classes that the report's stylesheet maps to the editor theme. Every value put into
+// the markup goes through `esc`, or through `coord`, which prints only numbers.
+import { escapeMarkup as esc, formatPowerOfTen, formatTick, isFiniteNumber } from './format';
 
 /** Drawing area: the whole SVG, and the margins around the plotting rectangle. */
 export interface Box {
@@ -86,11 +87,11 @@ export function coord(x: number): string {
 }
 
 export function svgDocument(plot: string, title: string, description: string, body: string, box: Box = defaultBox): string {
-  const id = `plot-${plot}`;
+  const id = esc(`plot-${plot}`);
   return (
-    `<svg xmlns="http://www.w3.org/2000/svg" class="plot" data-plot="${escapeMarkup(plot)}" role="img" ` +
+    `<svg xmlns="http://www.w3.org/2000/svg" class="plot" data-plot="${esc(plot)}" role="img" ` +
     `viewBox="0 0 ${box.width} ${box.height}" aria-labelledby="${id}-title ${id}-desc">` +
-    `<title id="${id}-title">${escapeMarkup(title)}</title><desc id="${id}-desc">${escapeMarkup(description)}</desc>` +
+    `<title id="${id}-title">${esc(title)}</title><desc id="${id}-desc">${esc(description)}</desc>` +
     body +
     '</svg>'
   );
@@ -98,7 +99,7 @@ export function svgDocument(plot: string, title: string, description: string, bo
 
 /** A plot with nothing to show, saying why. */
 export function emptyPlot(plot: string, title: string, reason: string, box: Box = defaultBox): string {
-  const text = `<text class="empty-note" x="${coord(box.width / 2)}" y="${coord(box.height / 2)}" text-anchor="middle">${escapeMarkup(reason)}</text>`;
+  const text = `<text class="empty-note" x="${coord(box.width / 2)}" y="${coord(box.height / 2)}" text-anchor="middle">${esc(reason)}</text>`;
   return svgDocument(plot, title, reason, text, box);
 }
 
@@ -119,8 +120,8 @@ export function drawAxes(box: Box, x: Axis, y: Axis, labels: AxisLabels): string
       const px = coord(project(x, v, [x0, x1]));
       const label = labels.xTickLabel ? labels.xTickLabel(v) : tickText(x, v);
       return (
-        `<g class="tick x-tick" data-value="${v}"><line class="grid" x1="${px}" x2="${px}" y1="${coord(y1)}" y2="${coord(y0)}"/>` +
-        `<text x="${px}" y="${coord(y0 + 16)}" text-anchor="middle">${escapeMarkup(label)}</text></g>`
+        `<g class="tick x-tick" data-value="${esc(v)}"><line class="grid" x1="${px}" x2="${px}" y1="${coord(y1)}" y2="${coord(y0)}"/>` +
+        `<text x="${px}" y="${coord(y0 + 16)}" text-anchor="middle">${esc(label)}</text></g>`
       );
     })
     .join('');
@@ -128,15 +129,15 @@ export function drawAxes(box: Box, x: Axis, y: Axis, labels: AxisLabels): string
     .map((v) => {
       const py = coord(project(y, v, [y0, y1]));
       return (
-        `<g class="tick y-tick" data-value="${v}"><line class="grid" x1="${coord(x0)}" x2="${coord(x1)}" y1="${py}" y2="${py}"/>` +
-        `<text x="${coord(x0 - 6)}" y="${py}" dy="0.32em" text-anchor="end">${escapeMarkup(tickText(y, v))}</text></g>`
+        `<g class="tick y-tick" data-value="${esc(v)}"><line class="grid" x1="${coord(x0)}" x2="${coord(x1)}" y1="${py}" y2="${py}"/>` +
+        `<text x="${coord(x0 - 6)}" y="${py}" dy="0.32em" text-anchor="end">${esc(tickText(y, v))}</text></g>`
       );
     })
     .join('');
   const frame = `<rect class="frame" x="${coord(x0)}" y="${coord(y1)}" width="${coord(x1 - x0)}" height="${coord(y0 - y1)}"/>`;
-  const xTitle = `<text class="axis-label x-label" x="${coord((x0 + x1) / 2)}" y="${coord(box.height - 6)}" text-anchor="middle">${escapeMarkup(labels.x)}</text>`;
+  const xTitle = `<text class="axis-label x-label" x="${coord((x0 + x1) / 2)}" y="${coord(box.height - 6)}" text-anchor="middle">${esc(labels.x)}</text>`;
   const yMid = coord((y0 + y1) / 2);
-  const yTitle = `<text class="axis-label y-label" x="14" y="${yMid}" text-anchor="middle" transform="rotate(-90 14 ${yMid})">${escapeMarkup(labels.y)}</text>`;
+  const yTitle = `<text class="axis-label y-label" x="14" y="${yMid}" text-anchor="middle" transform="rotate(-90 14 ${yMid})">${esc(labels.y)}</text>`;
   return `<g class="axes">${frame}${xTicks}${yTicks}${xTitle}${yTitle}</g>`;
 }
 
@@ -151,8 +152,8 @@ export function drawLegend(box: Box, items: LegendItem[]): string {
   const y = box.top / 2;
   const parts = items.map((item) => {
     const part =
-      `<g class="legend-item" data-series="${escapeMarkup(item.className)}"><rect class="swatch ${escapeMarkup(item.className)}-swatch" x="${coord(x)}" y="${coord(y - 5)}" width="10" height="10"/>` +
-      `<text x="${coord(x + 14)}" y="${coord(y)}" dy="0.32em">${escapeMarkup(item.label)}</text></g>`;
+      `<g class="legend-item" data-series="${esc(item.className)}"><rect class="swatch ${esc(item.className)}-swatch" x="${coord(x)}" y="${coord(y - 5)}" width="10" height="10"/>` +
+      `<text x="${coord(x + 14)}" y="${coord(y)}" dy="0.32em">${esc(item.label)}</text></g>`;
     // Rough text width: 6.5 px a character at the report's 11 px font.
     x += 28 + item.label.length * 6.5;
     return part;
@@ -169,7 +170,7 @@ export function polylines(points: Array<[number, number] | null>, className: str
   }
   return runs
     .filter((run) => run.length > 0)
-    .map((run) => `<polyline class="${className}" points="${run.join(' ')}"/>`)
+    .map((run) => `<polyline class="${esc(className)}" points="${run.join(' ')}"/>`)
     .join('');
 }
 

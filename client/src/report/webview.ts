@@ -3,7 +3,7 @@
 // report by postMessage and inserts the HTML that render.ts builds; buttons
 // post messages back, since the page itself may not touch the clipboard or the editor.
 import type { FromWebview, ToWebview } from './messages';
-import { renderFailure, renderLoading, renderReport } from './render';
+import { renderFailure, renderLoading, renderReportOrFailure } from './render';
 
 declare function acquireVsCodeApi(): { postMessage(message: FromWebview): void };
 
@@ -17,7 +17,7 @@ window.addEventListener('message', (event: MessageEvent<ToWebview>) => {
       root.innerHTML = renderLoading(message.objective);
       break;
     case 'report':
-      root.innerHTML = renderReport(message.result);
+      root.innerHTML = renderReportOrFailure(message.result);
       break;
     case 'failed':
       root.innerHTML = renderFailure(message.objective, message.message);

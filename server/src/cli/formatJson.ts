@@ -1,9 +1,12 @@
 // The JSON document of `slopecheck --format json`. Other tools read the field
 // names of the pair objects; new fields may be added, none renamed.
+// It goes to a terminal too: printableLines escapes, inside strings, the control and
+// bidi characters JSON.stringify leaves raw (C1, U+202E), so the document parses the same.
 import { findingLine } from '../check/checkDocument';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
 import { documentNamespace } from '../discovery/importerCalls';
+import { printableLines } from '../shared/plainText';
 import { describeCall } from '../shared/wording';
 
 export function formatJson(outcomes: FileOutcome[], meta: { version: string; seed: number }): string {
@@ -45,7 +48,7 @@ export function formatJson(outcomes: FileOutcome[], meta: { version: string; see
       console,
     })),
   }));
-  return JSON.stringify(
+  const document = JSON.stringify(
     {
       tool: { name: 'slopecheck', version: meta.version },
       seed: meta.seed,
@@ -56,4 +59,5 @@ export function formatJson(outcomes: FileOutcome[], meta: { version: string; see
     null,
     2,
   );
+  return printableLines(document);
 }

@@ -1,4 +1,5 @@
 // SARIF 2.1.0 (OASIS standard) log of a CLI run, for code-scanning services.
+// Printed to stdout, so printableLines escapes what a terminal would obey (as formatJson).
 import * as path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { findingSpan } from '../check/checkDocument';
@@ -6,6 +7,7 @@ import { allFindingCodes, findingHelpUrl, findingTitles } from '../check/codes';
 import type { SourceSpan } from '../discovery/types';
 import type { Finding, Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
+import { printableLines } from '../shared/plainText';
 
 const sarifLevel: Record<Severity, 'error' | 'warning' | 'note'> = { error: 'error', warning: 'warning', info: 'note' };
 
@@ -25,7 +27,7 @@ export function formatSarif(outcomes: FileOutcome[], meta: { version: string; cw
     }
   }
   const unreadable = outcomes.filter((o) => o.error);
-  return JSON.stringify(
+  const log = JSON.stringify(
     {
       $schema: 'https://json.schemastore.org/sarif-2.1.0.json',
       version: '2.1.0',
@@ -60,6 +62,7 @@ export function formatSarif(outcomes: FileOutcome[], meta: { version: string; cw
     null,
     2,
   );
+  return printableLines(log);
 }
 
 function result(finding: Finding, file: string, region: object, logicalName?: string): object {

@@ -1,8 +1,10 @@
-// The human-readable table of `slopecheck` (the default format).
+// The human-readable table of `slopecheck` (the default format). Every text that comes
+// from the user's files or code goes through printableLine: a terminal must not obey it.
 import { findingLine } from '../check/checkDocument';
-import type { Severity } from '../engine/types';
+import type { Finding, Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
+import { printableLine as shown } from '../shared/plainText';
 import { verdictCountWords, verdictWords } from '../shared/wording';
 
 const severityWord: Record<Severity, string> = { error: 'error', warning: 'warn', info: 'note' };
@@ -12,14 +14,14 @@ const columns = ['line', 'objective → gradient', 'verdict', 'max rel err', 'L�
 export function formatText(outcomes: FileOutcome[]): string {
   const out: string[] = [];
   for (const outcome of outcomes) {
-    out.push(outcome.path);
+    out.push(shown(outcome.path));
     if (outcome.error) {
-      out.push(`  cannot check: ${outcome.error}`, '');
+      out.push(`  cannot check: ${shown(outcome.error)}`, '');
       continue;
     }
     const check = outcome.check!;
-    for (const f of check.fileFindings) out.push(`  ${severityWord[f.severity]}  line ${f.span.line}  ${f.code}: ${f.message}`);
-    for (const pair of check.skipped) out.push(`  skipped  line ${pair.objective.nameSpan.line}  ${pair.objective.name} (// slopecheck-skip)`);
+    for (const f of check.fileFindings) out.push(`  ${findingText(f, f.span.line)}`);
+    for (const pair of check.skipped) out.push(`  skipped  line ${pair.objective.nameSpan.line}  ${shown(pair.objective.name)} (// slopecheck-skip)`);
     if (check.pairs.length === 0) {
       if (check.skipped.length === 0) out.push('  no objective/gradient pairs found');
       out.push('');
@@ -28,20 +30,18 @@ export function formatText(outcomes: FileOutcome[]): string {
     const rows = check.pairs.map(({ pair, report }) => [
       String(pair.objective.nameSpan.line),
       pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (value and gradient)`,
-      verdictWords[report.status],
+      String(verdictWords[report.status]),
       sci(report.maxRelError),
       sci(report.smoothness?.lipschitz ?? null),
       sci(report.smoothness?.safeStep ?? null),
       report.learningRate ? `${report.learningRate.name} = ${report.learningRate.value} (${report.learningRate.status})` : '—',
-    ]);
+    ].map(shown));
     const widths = columns.map((c, i) => Math.max(c.length, ...rows.map((r) => r[i].length)));
     const line = (cells: string[]) => '  ' + cells.map((c, i) => c.padEnd(widths[i])).join('  ').trimEnd();
     out.push(line(columns));
     check.pairs.forEach(({ pair, report }, i) => {
       out.push(line(rows[i]));
-      for (const f of report.findings) {
-        out.push(`      ${severityWord[f.severity]}  line ${findingLine(check.fileName, pair, f)}  ${f.code}: ${f.message}`);
-      }
+      for (const f of report.findings) out.push(`      ${findingText(f, findingLine(check.fileName, pair, f))}`);
     });
     out.push('');
   }
@@ -53,6 +53,11 @@ export function formatText(outcomes: FileOutcome[]): string {
     'L̂ and the steps 1/L̂ are local estimates near the probe points, not guarantees for the whole domain.',
   );
   return out.join('\n') + '\n';
+}
+
+/** `error  line 12  gradient-mismatch: …`, printable whatever the report holds. */
+function findingText(finding: Finding, line: number): string {
+  return shown(`${severityWord[finding.severity]}  line ${line}  ${finding.code}: ${finding.message}`);
 }
 
 function sci(value: number | null): string {

@@ -8,6 +8,7 @@ import type { CheckPlan, Finding, PairReport } from '../engine/types';
 import { isRunnable, unrunnableBundleFindings, type Bundle } from './bundle';
 import { sandboxLaunch, type SandboxLaunch } from './launch';
 import { residentBytes } from './residentMemory';
+import { validateConsole, validateReport } from './validateReport';
 import type { SandboxReceipt, SandboxReply, SandboxRequest } from './protocol';
 import { cancelledFinding, errorReport, timeoutFinding } from './reports';
 import { locateInUserSource } from './sourceMap';
@@ -204,7 +205,15 @@ export class SandboxPool {
     if (!isReplyTo(job.id, message)) return;
     // One check per process: it ends itself after replying, and is killed here in case it does not.
     this.retire(slot);
-    this.settle(job, { report: withUserLocations(message.report, job.bundle), console: message.console, consoleTruncated: message.consoleTruncated });
+    // The reply is data from a process that ran user code: held to the report's shape and capped
+    // before anything of it is used; locations come only from our own source mapping.
+    const validated = validateReport(message.report);
+    if ('problem' in validated) {
+      const finding: Finding = { code: 'sandbox-crash', severity: 'error', subject: 'objective', message: `The sandbox answered with a malformed report (${validated.problem}); none of it was used.` };
+      this.settle(job, resultOf(errorReport([finding])));
+    } else {
+      this.settle(job, { report: withUserLocations(validated.report, job.bundle), console: validateConsole(message.console), consoleTruncated: message.consoleTruncated === true });
+    }
     this.dispatch();
   }
 
@@ -291,10 +300,10 @@ function isReceiptOf(id: number, message: unknown): boolean {
   return typeof receipt === 'object' && receipt !== null && receipt.id === id && receipt.received === true;
 }
 
+/** A reply to this request: the shape of its contents is checked by validateReport and validateConsole. */
 function isReplyTo(id: number, message: unknown): message is SandboxReply {
   const reply = message as Partial<SandboxReply> | null;
-  return typeof reply === 'object' && reply !== null && reply.id === id && typeof reply.report === 'object' && reply.report !== null
-    && Array.isArray(reply.report.findings) && Array.isArray(reply.console);
+  return typeof reply === 'object' && reply !== null && Object.hasOwn(reply, 'id') && reply.id === id && Object.hasOwn(reply, 'report');
 }
 
 /** Fills `location` of findings that carry a user stack, through the bundle's source map. */

@@ -1,0 +1,217 @@
+// The host's check of a report that arrives from the sandbox process. That process ran the
+// user's code, so its reply is data to read with care, not a PairReport to trust: every field
+// is read as an own data property, held to what the type allows (exact enum words, finite
+// numbers, arrays of the right shapes), and what could be huge is capped. The result is a
+// fresh plain object; anything malformed gives `{ problem }` instead, never an exception.
+// Runs before the host fills in `location` from the source map: a location the sandbox
+// sends is dropped, since only the host's mapping may say which file a finding is in.
+import { allFindingCodes } from '../check/codes';
+import type {
+  ComponentCheck,
+  DescentRun,
+  Diagnosis,
+  DirectionalCheck,
+  Finding,
+  FindingSubject,
+  LearningRateVerdict,
+  PairReport,
+  PairStatus,
+  ProbeReport,
+  RateStatus,
+  Severity,
+  SmoothnessEstimate,
+  StepStudy,
+} from '../engine/types';
+import {
+  boolean,
+  count,
+  countPair,
+  cut,
+  finite,
+  isRecord,
+  listOf,
+  Malformed,
+  measurement,
+  mostTellingOf,
+  nonNegative,
+  nullOr,
+  objectOf,
+  oneOf,
+  ownValue,
+  textUpTo,
+  wordsOf,
+  type Reader,
+} from './untrustedValues';
+
+/** Caps. A finding's message and stack carry a marker when cut; lists keep their first (or most telling) entries. */
+export const reportLimits = {
+  messageLength: 2_000,
+  /** Stacks, and the scope keys of recipe findings (a longer key no longer names its line; the finding stays on the objective). */
+  stackLength: 8_000,
+  nameLength: 500,
+  /** Findings per report: the most severe are kept, in their order. */
+  findings: 50,
+  probes: 100,
+  /** Components per probe (the fullCheckMaxDimension setting allows 10 000), mismatched ones kept first. */
+  components: 1_000,
+  directions: 100,
+  descentRuns: 10,
+  /** Any list of numbers: a probe's coordinates, Ritz values, descent values, steps, component indices. */
+  numbers: 1_000,
+  /** The whole report as JSON, in characters. */
+  reportLength: 8 * 1024 * 1024,
+  consoleLines: 200,
+  consoleLineLength: 2_000,
+  consoleLength: 20_000,
+} as const;
+
+/** The report rebuilt from checked fields, or what was wrong with it. Never throws. */
+export function validateReport(value: unknown): { report: PairReport } | { problem: string } {
+  try {
+    const report = pairReport(value, 'report');
+    const length = JSON.stringify(report).length;
+    if (length > reportLimits.reportLength) return { problem: `the report is ${length} characters of JSON, more than the ${reportLimits.reportLength} allowed` };
+    return { report };
+  } catch (error) {
+    // Only a Proxy, which JSON never makes, can throw anything else while being read.
+    return { problem: error instanceof Malformed ? error.message : 'the report could not be read' };
+  }
+}
+
+/**
+ * The console lines of a reply: strings only (others are left out), each line and all of them
+ * capped, a last line saying so when lines were left out; anything but a list gives none.
+ */
+export function validateConsole(value: unknown): string[] {
+  if (!Array.isArray(value)) return [];
+  const lines: string[] = [];
+  let length = 0;
+  let next = 0;
+  for (; next < value.length && lines.length < reportLimits.consoleLines; next++) {
+    const line = ownValue(value, next);
+    if (typeof line !== 'string') continue;
+    const kept = cut(line, reportLimits.consoleLineLength);
+    if (length + kept.length > reportLimits.consoleLength) break;
+    lines.push(kept);
+    length += kept.length;
+  }
+  if (next < value.length) {
+    lines.length = Math.min(lines.length, reportLimits.consoleLines - 1);
+    lines.push(`… [console output cut: ${value.length} lines in all]`);
+  }
+  return lines;
+}
+
+// The report's fields (engine/types.ts).
+
+const severities = wordsOf<Severity>({ error: true, warning: true, info: true });
+const status = oneOf(wordsOf<PairStatus>({ pass: true, fail: true, inconclusive: true, error: true }));
+const severity = oneOf(severities);
+const code = oneOf(allFindingCodes);
+const subject = oneOf(wordsOf<FindingSubject>({ objective: true, gradient: true, learningRate: true, probe: true, recipe: true }));
+const rateStatus = oneOf(wordsOf<RateStatus>({ safe: true, aggressive: true, divergent: true }));
+const probeMode = oneOf(wordsOf<ProbeReport['mode']>({ full: true, directional: true }));
+const runLabel = oneOf(wordsOf<DescentRun['label']>({ declared: true, safe: true, limit: true }));
+
+const messageText = textUpTo(reportLimits.messageLength);
+const longText = textUpTo(reportLimits.stackLength);
+const shortText = textUpTo(reportLimits.nameLength);
+const numbers = listOf(measurement, reportLimits.numbers);
+const indices = listOf(count, reportLimits.numbers);
+
+// Ranks for trimming long lists, lowest kept first. An entry that is not what it should be ranks
+// lowest of all, so it is kept and refused, rather than trimmed away with the list's tail.
+const severityRank = (f: unknown) => (isRecord(f) ? severities.indexOf(ownValue(f, 'severity') as Severity) : -1);
+const mismatchRank = (c: unknown) => (isRecord(c) && ownValue(c, 'mismatch') === false ? 1 : 0);
+
+// Readers are defined before use: the ones a reader names must exist when it is built.
+
+/** What a component check and a direction check share. */
+const compared = { analytic: measurement, numerical: measurement, errorBound: measurement, mismatch: boolean };
+const directionalCheck = objectOf<DirectionalCheck>(compared, {});
+const componentCheck = objectOf<ComponentCheck>({ index: count, ...compared, relError: measurement }, {});
+
+const stepStudy = objectOf<StepStudy>(
+  {
+    // -1 stands for a random direction.
+    component: (value, at) => (value === -1 ? -1 : count(value, at)),
+    steps: numbers,
+    errors: numbers,
+    chosenStep: measurement,
+  },
+  {},
+);
+
+const descentRun = objectOf<DescentRun>({ label: runLabel, rate: measurement, values: numbers, decreased: boolean }, {});
+
+const probeSmoothness = objectOf<NonNullable<ProbeReport['smoothness']>>(
+  { lambdaMax: measurement, lambdaMin: measurement, ritzValues: numbers, secantMax: measurement, hessianVectorProducts: count },
+  { lambdaMaxResidual: measurement, lambdaMinResidual: measurement },
+);
+
+const probeReport = objectOf<ProbeReport>(
+  {
+    point: numbers,
+    dimension: count,
+    value: measurement,
+    mode: probeMode,
+    components: mostTellingOf(componentCheck, reportLimits.components, mismatchRank),
+    directions: mostTellingOf(directionalCheck, reportLimits.directions, mismatchRank),
+    noise: measurement,
+    maxRelError: measurement,
+    stepStudy: nullOr(stepStudy),
+    smoothness: nullOr(probeSmoothness),
+    descent: listOf(descentRun, reportLimits.descentRuns),
+  },
+  {},
+);
+
+const finding = objectOf<Finding>(
+  { code, severity, message: messageText, subject },
+  {
+    components: indices,
+    // A scope key cut short names no line any more; the finding then stays on the objective.
+    recipeKey: longText,
+    probeIndex: count,
+    stack: longText,
+    // Only the host's source mapping says where a finding is (see the top of the file).
+    location: 'not read',
+  },
+);
+
+/** Each kind of diagnosis with the fields it has. */
+const diagnosisOfKind: { [K in Diagnosis['kind']]: Reader<Extract<Diagnosis, { kind: K }>> } = {
+  sign: objectOf({ kind: oneOf(['sign']) }, {}),
+  factor: objectOf({ kind: oneOf(['factor']), factor: measurement }, {}),
+  permutation: objectOf({ kind: oneOf(['permutation']), pairs: listOf(countPair, reportLimits.numbers) }, {}),
+  subset: objectOf({ kind: oneOf(['subset']), components: indices }, {}),
+  unknown: objectOf({ kind: oneOf(['unknown']) }, {}),
+};
+const diagnosisKind = objectOf<Pick<Diagnosis, 'kind'>>({ kind: oneOf(Object.keys(diagnosisOfKind) as Array<Diagnosis['kind']>) }, {});
+const diagnosis: Reader<Diagnosis> = (value, at) => diagnosisOfKind[diagnosisKind(value, at).kind](value, at);
+
+const smoothnessEstimate = objectOf<SmoothnessEstimate>(
+  { lipschitz: measurement, mu: measurement, kappa: nullOr(measurement), safeStep: measurement, divergenceStep: measurement },
+  { lipschitzResidual: measurement, muResidual: measurement },
+);
+
+const learningRateVerdict = objectOf<LearningRateVerdict>(
+  { name: shortText, value: finite, status: rateStatus, decreased: listOf(boolean, reportLimits.probes) },
+  { momentum: objectOf<{ name: string; value: number }>({ name: shortText, value: finite }, {}) },
+);
+
+const pairReport = objectOf<PairReport>(
+  {
+    status,
+    dimension: nullOr(count),
+    maxRelError: nullOr(measurement),
+    diagnosis: nullOr(diagnosis),
+    smoothness: nullOr(smoothnessEstimate),
+    learningRate: nullOr(learningRateVerdict),
+    probes: listOf(probeReport, reportLimits.probes),
+    findings: mostTellingOf(finding, reportLimits.findings, severityRank),
+    evaluations: objectOf<PairReport['evaluations']>({ objective: count, gradient: count }, {}),
+    elapsedMs: nonNegative,
+  },
+  {},
+);
