@@ -82,7 +82,8 @@ export async function runScale(log: (line: string) => void): Promise<ScaleRow[]>
   const rows: ScaleRow[] = [];
   try {
     for (const n of scaleDimensions) {
-      const bundle = await bundleDocument(moduleText(n), path.join(os.tmpdir(), 'slopecheck-bench', `scale${n}.ts`), scopeKeysOf(plan(n)));
+      const folder = path.join(os.tmpdir(), 'slopecheck-bench');
+      const bundle = await bundleDocument(moduleText(n), path.join(folder, `scale${n}.ts`), folder, scopeKeysOf(plan(n)));
       if (bundle.errors.length > 0) throw new Error(`bundle failed: ${JSON.stringify(bundle.errors)}`);
       // One warm-up run, so process start and first compilation are not counted.
       await pool.run(bundle, plan(n));

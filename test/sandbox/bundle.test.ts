@@ -71,6 +71,18 @@ describe('bundleDocument', () => {
     assert.deepEqual(inLib && { file: inLib.file, line: inLib.line }, { file: path.join(project.dir, 'lib.ts'), line: lineOf(libText, 'from lib') });
   });
 
+  test("an imported file's own source map naming another host: no throw, and the caller's line in the document", async () => {
+    // esbuild folds a file's `sourceMappingURL` map into the bundle's, sources and all.
+    const foreignMap = { version: 3, sources: ['file://evil-host/x.ts'], names: [], mappings: 'AAAA;AACA;AACA' };
+    const mapComment = `//# sourceMappingURL=data:application/json;base64,${Buffer.from(JSON.stringify(foreignMap)).toString('base64')}`;
+    project.write('mapped.js', `export function boom() {\n  throw new Error('from mapped');\n}\n${mapComment}\n`);
+    const text = "import { boom } from './mapped.js';\nexport function callsMapped(): number {\n  return boom(); // CALL\n}\n";
+    const bundle = await project.bundle(text);
+    assert.match(Buffer.from(bundle.code.split('base64,').pop()!, 'base64').toString(), /file:\/\/evil-host/, 'the foreign source is in the map');
+    const location = locateInUserSource(stackOf(() => load(bundle.code).callsMapped()), bundle);
+    assert.deepEqual(location && { file: location.file, line: location.line }, { file: path.join(project.dir, 'main.ts'), line: lineOf(text, '// CALL') });
+  });
+
   test('a stack without frames of the bundle maps to nothing', async () => {
     const bundle = await project.bundle(mainText);
     assert.equal(locateInUserSource('Error: x\n    at run (slopecheck-runner.js:10:5)', bundle), null);

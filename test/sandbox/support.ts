@@ -28,7 +28,7 @@ export function tempProject(): TempProject {
       return file;
     },
     bundle(text, name = 'main.ts', scopeKeys = testScopeKeys) {
-      return bundleDocument(text, path.join(dir, name), scopeKeys);
+      return bundleDocument(text, path.join(dir, name), dir, scopeKeys);
     },
     remove() {
       rmSync(dir, { recursive: true, force: true });

@@ -8,6 +8,7 @@ import type { CheckOptions, CheckPlan, Finding, PairReport, PairStatus } from '.
 import { documentNamespace } from '../discovery/importerCalls';
 import type { SourceText } from '../discovery/importers';
 import { bundleDocument, unrunnableBundleFindings, type Bundle } from '../sandbox/bundle';
+import { bundleRootFor } from '../sandbox/confine';
 import { scopeKeysOf } from '../sandbox/scopeHook';
 import type { SandboxPool } from '../sandbox/pool';
 
@@ -37,6 +38,11 @@ export interface CheckDocumentHooks {
   onPairChecked?(done: number, total: number, objective: string): void;
   /** Workspace files that import `fileName`, asked only when a pair needs data its own file lacks. */
   importersOf?(fileName: string): Promise<readonly SourceText[]>;
+  /**
+   * The workspace folder: every bundle reads only files inside it. When it does not hold the
+   * document, or is absent, the document's own folder is the root.
+   */
+  workspaceRoot?: string;
 }
 
 /** Codes found by discovery that leave nothing to run. */
@@ -66,7 +72,8 @@ export async function checkDocument(
   if (toCheck.length === 0) return result;
 
   // One bundle per entry: the document for most targets, an importing file for those whose data live there.
-  // Each exposes every value its targets' plans name.
+  // Each exposes every value its targets' plans name, and all read under the same root.
+  const root = bundleRootFor(fileName, hooks.workspaceRoot);
   const bundles = new Map<string, Promise<Bundle>>();
   const bundleFor = (pair: DiscoveredPair): Promise<Bundle> => {
     const entry = pair.entry;
@@ -75,8 +82,8 @@ export async function checkDocument(
     if (!bundle) {
       const keys = toCheck.filter((p) => (p.entry?.fileName ?? '') === key).flatMap((p) => scopeKeysOf(p.plan));
       bundle = entry
-        ? bundleDocument(entry.text, entry.fileName, keys, { documentImport: { namespace: documentNamespace, specifier: entry.specifier }, replaced: { fileName, text } })
-        : bundleDocument(text, fileName, keys);
+        ? bundleDocument(entry.text, entry.fileName, root, keys, { documentImport: { namespace: documentNamespace, specifier: entry.specifier }, replaced: { fileName, text } })
+        : bundleDocument(text, fileName, root, keys);
       bundles.set(key, bundle);
     }
     return bundle;

@@ -64,7 +64,11 @@ async function checkFiles(files: string[], args: CliArguments): Promise<FileOutc
       try {
         const text = texts.get(file);
         if (typeof text !== 'string') throw text;
-        const check = await checkDocument(text, path.resolve(file), pool, options, undefined, { importersOf: async (fileName) => importers.importersOf(fileName) });
+        // The working folder is the workspace: a file outside it is bundled under its own folder.
+        const check = await checkDocument(text, path.resolve(file), pool, options, undefined, {
+          importersOf: async (fileName) => importers.importersOf(fileName),
+          workspaceRoot: process.cwd(),
+        });
         outcomes.push({ path: shown, check, error: null });
       } catch (error) {
         process.stderr.write(`slopecheck: cannot check ${shown}: ${describeFsError(error)}\n`);

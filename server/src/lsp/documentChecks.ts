@@ -23,6 +23,8 @@ export interface DocumentChecksHost {
   progress: ProgressFactory | null;
   /** Workspace files that import a document; absent when the server knows no workspace. */
   importersOf?(fileName: string): Promise<readonly SourceText[]>;
+  /** The workspace folder holding a document, the only folder its bundles read; absent or undefined: the document's own folder. */
+  workspaceRoot?(fileName: string): string | undefined;
   log(message: string): void;
 }
 
@@ -159,6 +161,7 @@ export class DocumentChecks {
       const check = await checkDocument(text, state.fileName, runner, checkOptions(this.host.settings()), controller.signal, {
         onPairChecked: (done, total, objective) => progress?.pairChecked(done, total, objective),
         importersOf: this.host.importersOf,
+        workspaceRoot: this.host.workspaceRoot?.(state.fileName),
       });
       if (!isCurrent()) return;
       state.check = check;

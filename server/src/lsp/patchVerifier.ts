@@ -7,14 +7,22 @@ import type { CheckOptions } from '../engine/types';
 export class PatchVerifier {
   private readonly verdicts = new Map<string, Promise<boolean>>();
 
-  constructor(private readonly runner: () => PairRunner, private readonly capacity = 100) {}
+  constructor(
+    private readonly runner: () => PairRunner,
+    private readonly capacity = 100,
+    /** The workspace folder holding a file, the only folder its bundles read; undefined: the file's own folder. */
+    private readonly workspaceRoot: (fileName: string) => string | undefined = () => undefined,
+  ) {}
 
   /** True when `objective`'s pair passes in `patchedText`. A cancelled verification is forgotten. */
   passes(patchedText: string, fileName: string, objective: string, options: CheckOptions, signal?: AbortSignal): Promise<boolean> {
     const key = createHash('sha256').update(fileName).update('\0').update(objective).update('\0').update(JSON.stringify(options)).update('\0').update(patchedText).digest('hex');
     const known = this.verdicts.get(key);
     if (known) return known;
-    const verdict = checkDocument(patchedText, fileName, this.runner(), options, signal, { onlyObjective: objective }).then(
+    const verdict = checkDocument(patchedText, fileName, this.runner(), options, signal, {
+      onlyObjective: objective,
+      workspaceRoot: this.workspaceRoot(fileName),
+    }).then(
       (check) => !signal?.aborted && check.pairs.length === 1 && check.pairs[0].report.status === 'pass',
       () => false,
     );

@@ -7,6 +7,7 @@ import {
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { CachedRunner } from '../check/runCache';
 import { discoverPairs } from '../discovery/discover';
+import { isInside } from '../sandbox/confine';
 import { SandboxPool } from '../sandbox/pool';
 import { productVersion, sandboxScriptPath } from '../shared/productInfo';
 import {
@@ -32,8 +33,11 @@ export function startServer(connection: Connection): void {
   let settings!: SettingsSource;
   let pool: SandboxPool | null = null;
   let ready!: Promise<void>;
+  /** The workspace folders the client named (file URIs only); a document's bundles read only inside the one holding it. */
+  let folders: string[] = [];
+  const workspaceRoot = (fileName: string) => folderHolding(folders, fileName);
   const runner = new CachedRunner(() => pool ?? (pool = createPool(settings.current)));
-  const verifier = new PatchVerifier(() => runner);
+  const verifier = new PatchVerifier(() => runner, undefined, workspaceRoot);
   let checks!: DocumentChecks;
 
   connection.onInitialize((params: InitializeParams) => {
@@ -44,7 +48,7 @@ export function startServer(connection: Connection): void {
     codeLensRefresh = capabilities.workspace?.codeLens?.refreshSupport === true;
     dynamicConfiguration = capabilities.workspace?.didChangeConfiguration?.dynamicRegistration === true;
     settings = new SettingsSource(connection, capabilities.workspace?.configuration === true);
-    const folders = (params.workspaceFolders ?? (params.rootUri ? [{ uri: params.rootUri }] : [])).filter((folder) => folder.uri.startsWith('file:')).map((folder) => fileNameOf(folder.uri));
+    folders = (params.workspaceFolders ?? (params.rootUri ? [{ uri: params.rootUri }] : [])).filter((folder) => folder.uri.startsWith('file:')).map((folder) => fileNameOf(folder.uri));
     const openText = (fileName: string) => documents.all().find((document) => fileNameOf(document.uri) === fileName)?.getText();
     const sources = new WorkspaceSources(() => folders, openText);
     checks = new DocumentChecks({
@@ -60,6 +64,7 @@ export function startServer(connection: Connection): void {
       progress: capabilities.window?.workDoneProgress ? () => connection.window.createWorkDoneProgress() : null,
       log: (message) => connection.console.error(message),
       importersOf: folders.length > 0 ? (fileName) => sources.importersOf(fileName) : undefined,
+      workspaceRoot,
     });
     return {
       capabilities: {
@@ -193,6 +198,11 @@ export function startServer(connection: Connection): void {
 
 function createPool(settings: SlopecheckSettings): SandboxPool {
   return new SandboxPool({ sandboxScript: sandboxScriptPath(), timeoutMs: settings.timeoutMs, memoryMb: settings.memoryMb, size: 1 });
+}
+
+/** The innermost workspace folder holding `fileName`; undefined when none does (its own folder is then the root). */
+function folderHolding(folders: readonly string[], fileName: string): string | undefined {
+  return folders.filter((folder) => isInside(folder, fileName)).sort((a, b) => b.length - a.length)[0];
 }
 
 /** A file path for the bundler: the real one for file URIs, a made-up one in the working folder otherwise. */

@@ -1,13 +1,18 @@
 // Bundles one document (an unsaved buffer wins over the file on disk) with its
-// relative imports and workspace packages into CommonJS for the sandbox.
+// relative imports and workspace packages into CommonJS for the sandbox, reading only
+// code and JSON inside the root (confine.ts).
 // Imports of Node built-ins are recorded, left external and make the bundle unrunnable,
 // except the two a script guard needs (`url`, `process`), which get inert stand-ins.
 import * as esbuild from 'esbuild';
+import { realpath } from 'node:fs/promises';
 import { builtinModules } from 'node:module';
 import * as path from 'node:path';
 import type { Finding } from '../engine/types';
+import { BundleRoot, codeLoaderOf, refusal } from './confine';
+import { confinedFiles, withoutSourceMapReads } from './confinedFiles';
 import { withScopeHook } from './scopeHook';
 import { scriptGuardStandIns } from './standIns';
+import { confinedTsconfig } from './tsconfig';
 
 export interface BundleError {
   message: string;
@@ -49,10 +54,26 @@ export interface BundleOptions {
   replaced?: { fileName: string; text: string };
 }
 
-/** Bundles `text` as `fileName`, with the scope hook for `scopeKeys` (see scopeHook.ts) appended. */
-export async function bundleDocument(text: string, fileName: string, scopeKeys: readonly string[] = [], options: BundleOptions = {}): Promise<Bundle> {
+/**
+ * Bundles `text` as `fileName`, with the scope hook for `scopeKeys` (see scopeHook.ts) appended.
+ * Only files inside `root` (the workspace folder; see bundleRootFor) are read.
+ */
+export async function bundleDocument(
+  text: string,
+  fileName: string,
+  root: string,
+  scopeKeys: readonly string[] = [],
+  options: BundleOptions = {},
+): Promise<Bundle> {
   const absoluteFile = path.resolve(fileName);
   const sourceRoot = path.dirname(absoluteFile);
+  const base = { code: '', fileName: absoluteFile, sourceRoot, builtinImports: [], builtinImportSites: [] };
+  const confinement = await BundleRoot.of(root);
+  const tsconfig = await confinedTsconfig(absoluteFile, confinement);
+  if ('error' in tsconfig) return { ...base, errors: [{ ...tsconfig.error, line: 1, column: 1 }] };
+  const replaced = options.replaced;
+  const unsaved = new Map<string, string>();
+  if (replaced) unsaved.set(await realpath(replaced.fileName).catch(() => path.resolve(replaced.fileName)), replaced.text);
   const builtinImports = new Set<string>();
   const recordBuiltins: esbuild.Plugin = {
     name: 'record-builtins',
@@ -69,20 +90,19 @@ export async function bundleDocument(text: string, fileName: string, scopeKeys: 
         contents: scriptGuardStandIns[args.path.replace(/^node:/, '')],
         loader: 'js',
       }));
-      const replaced = options.replaced;
-      if (replaced) {
-        const replacedPath = path.resolve(replaced.fileName);
-        build.onLoad({ filter: /.*/, namespace: 'file' }, (args) =>
-          path.resolve(args.path) === replacedPath ? { contents: replaced.text, loader: loaderFor(replacedPath), resolveDir: path.dirname(replacedPath) } : undefined,
-        );
-      }
     },
   };
-  const base = { code: '', fileName: absoluteFile, sourceRoot };
   try {
     const result = await esbuild.build({
-      stdin: { contents: withScopeHook(text, scopeKeys, options.documentImport), sourcefile: path.basename(absoluteFile), resolveDir: sourceRoot, loader: loaderFor(absoluteFile) },
+      stdin: {
+        contents: withoutSourceMapReads(withScopeHook(text, scopeKeys, options.documentImport)),
+        sourcefile: path.basename(absoluteFile),
+        resolveDir: sourceRoot,
+        loader: loaderFor(absoluteFile),
+      },
       absWorkingDir: sourceRoot,
+      // Given a tsconfig, esbuild looks for none on disk.
+      tsconfigRaw: tsconfig.tsconfigRaw,
       bundle: true,
       format: 'cjs',
       // The sandbox is a bare ECMAScript realm, not Node: prefer packages' portable entry points.
@@ -93,14 +113,14 @@ export async function bundleDocument(text: string, fileName: string, scopeKeys: 
       sourcemap: 'inline',
       sourcesContent: false,
       logLevel: 'silent',
-      plugins: [recordBuiltins],
+      plugins: [recordBuiltins, confinedFiles(confinement, unsaved)],
     });
     const code = result.outputFiles?.[0]?.text ?? '';
-    return { ...base, code, builtinImports: [], builtinImportSites: [], errors: [] };
+    return { ...base, code, errors: [] };
   } catch (error) {
     const messages = (error as Partial<esbuild.BuildFailure>).errors;
     if (!Array.isArray(messages)) throw error;
-    const located = messages.map((message) => toBundleError(message, sourceRoot, absoluteFile));
+    const located = await Promise.all(messages.map((message) => withheldOutside(toBundleError(message, sourceRoot, absoluteFile), confinement, absoluteFile)));
     const builtinImportSites = located
       .filter((site) => site.message.startsWith(builtinMarker))
       .map((site) => ({ ...site, message: site.message.slice(builtinMarker.length) }));
@@ -113,12 +133,10 @@ export async function bundleDocument(text: string, fileName: string, scopeKeys: 
   }
 }
 
+/** The document's loader: its text is code whatever its name says. */
 function loaderFor(fileName: string): esbuild.Loader {
-  const extension = path.extname(fileName).toLowerCase();
-  if (extension === '.tsx') return 'tsx';
-  if (extension === '.jsx') return 'jsx';
-  if (extension === '.js' || extension === '.mjs' || extension === '.cjs') return 'js';
-  return 'ts';
+  const loader = codeLoaderOf(fileName);
+  return loader === undefined || loader === 'json' ? 'ts' : loader;
 }
 
 function toBundleError(message: esbuild.Message, sourceRoot: string, documentFile: string): BundleError {
@@ -129,6 +147,12 @@ function toBundleError(message: esbuild.Message, sourceRoot: string, documentFil
     line: location?.line ?? 1,
     column: (location?.column ?? 0) + 1,
   };
+}
+
+/** An error esbuild located in a file outside the root (a package.json it read on its own) may quote that file's text. */
+async function withheldOutside(error: BundleError, root: BundleRoot, documentFile: string): Promise<BundleError> {
+  if (error.file === documentFile || (await root.realPathInside(error.file)) !== null) return error;
+  return { message: refusal.withheld(root), file: documentFile, line: 1, column: 1 };
 }
 
 /** True when the bundle may be executed in the sandbox. */
