@@ -3,6 +3,7 @@ import * as os from 'node:os';
 import * as path from 'node:path';
 import { checkDocument } from '../check/checkDocument';
 import { ImporterIndex, type SourceText } from '../discovery/importers';
+import { printableLine } from '../shared/plainText';
 import { defaultCheckOptions } from '../engine/types';
 import { SandboxPool } from '../sandbox/pool';
 import { productVersion, sandboxScriptPath } from '../shared/productInfo';
@@ -28,7 +29,7 @@ async function main(argv: string[]): Promise<number> {
   }
 
   const { files, unreadable } = await collectFiles(args.paths);
-  for (const u of unreadable) process.stderr.write(`slopecheck: cannot read ${u.path}: ${u.message}\n`);
+  for (const u of unreadable) process.stderr.write(`slopecheck: cannot read ${printableLine(u.path)}: ${printableLine(u.message)}\n`);
 
   const outcomes = await checkFiles(files, args);
   outcomes.push(...unreadable.map((u) => ({ path: u.path, check: null, error: u.message })));
@@ -60,7 +61,7 @@ async function checkFiles(files: string[], args: CliArguments): Promise<FileOutc
     while (next < files.length) {
       const file = files[next++];
       const shown = path.relative(process.cwd(), file) || file;
-      progress(`checking ${outcomes.length + 1}/${files.length} ${shown}`);
+      progress(`checking ${outcomes.length + 1}/${files.length} ${printableLine(shown)}`);
       try {
         const text = texts.get(file);
         if (typeof text !== 'string') throw text;
@@ -71,7 +72,7 @@ async function checkFiles(files: string[], args: CliArguments): Promise<FileOutc
         });
         outcomes.push({ path: shown, check, error: null });
       } catch (error) {
-        process.stderr.write(`slopecheck: cannot check ${shown}: ${describeFsError(error)}\n`);
+        process.stderr.write(`slopecheck: cannot check ${printableLine(shown)}: ${printableLine(describeFsError(error))}\n`);
         outcomes.push({ path: shown, check: null, error: describeFsError(error) });
       }
     }

@@ -39,7 +39,7 @@ export function readSettings(raw: unknown): SlopecheckSettings {
     checkWhen: given.checkWhen === 'typing' ? 'typing' : 'openAndSave',
     typingDelayMs: number('typingDelayMs', 0, 60_000),
     timeoutMs: number('timeoutMs', 100, 600_000),
-    memoryMb: number('memoryMb', 64, 16_384),
+    memoryMb: number('memoryMb', 128, 16_384),
     probeCount: Math.round(number('probeCount', 1, 50)),
     seed: Math.round(number('seed', 0, 2 ** 31)),
     fullCheckMaxDimension: Math.round(number('fullCheckMaxDimension', 1, 10_000)),
