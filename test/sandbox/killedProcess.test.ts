@@ -41,8 +41,10 @@ describe('a sandbox process killed from outside', () => {
     const pool = new SandboxPool({ sandboxScript, timeoutMs: 5000 });
     try {
       await assertAnswers(pool);
+      // Once the first file's process has ended, the one left is the spare started ahead.
+      await waitFor(() => pool.processIds().length === 1);
       const [pid] = pool.processIds();
-      assert.ok(pid !== undefined, 'a warm process after the first request');
+      assert.ok(pid !== undefined, 'a spare after the first request');
       process.kill(pid, 'SIGKILL');
       await waitFor(() => !pool.processIds().includes(pid));
       assert.equal(isAlive(pid), false);
@@ -60,6 +62,7 @@ describe('a sandbox process killed from outside', () => {
     const pool = new SandboxPool({ sandboxScript, timeoutMs });
     try {
       await assertAnswers(pool);
+      await waitFor(() => pool.processIds().length === 1);
       const [pid] = pool.processIds();
       const bundle = await project.bundle('for (;;) {}\n', 'main.js');
       const idleTicks = cpuTicks(pid);
@@ -89,7 +92,8 @@ describe('a sandbox process killed from outside', () => {
     const pool = new SandboxPool({ sandboxScript, timeoutMs: 5000 });
     try {
       await assertAnswers(pool);
-      const bundle = await project.bundle('exports.value = 1;\n', 'main.js');
+      await waitFor(() => pool.processIds().length === 1);
+      const bundle = await project.bundle('exports.value = 2;\n', 'main.js');
       const [pid] = pool.processIds();
       process.kill(pid, 'SIGKILL');
       const { report } = await pool.run(bundle, roundTripPlan);

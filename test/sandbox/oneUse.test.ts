@@ -1,5 +1,6 @@
-// One check per sandbox process: every run gets a process that has run no other user code,
-// the process ends after its reply, a spare is started ahead, and nothing is left behind.
+// One module per sandbox process: a check never runs in a process that has run another file's
+// code; the targets of one file may share a process, which ends once they are done; a spare is
+// started ahead, and nothing is left behind.
 import assert from 'node:assert/strict';
 import { after, describe, test } from 'node:test';
 import { SandboxPool } from '../../server/src/sandbox/pool';
@@ -11,26 +12,42 @@ const project = tempProject();
 after(() => project.remove());
 
 describe('one check per sandbox process', () => {
-  test('each run gets a fresh process, which ends after its reply; a spare waits for the next', async () => {
+  test("each file's bundle gets a process that has run no other; it ends once its checks are done; a spare waits", async () => {
     const pool = new SandboxPool({ sandboxScript });
     try {
-      const bundle = await project.bundle('export const value = 1;\n');
       const used: number[] = [];
       for (let k = 0; k < 3; k++) {
-        const [ready] = pool.processIds();
+        const bundle = await project.bundle(`export const value = ${k};\n`, `file${k}.js`);
+        const [ready] = pool.processIds().filter((pid) => !used.includes(pid));
         const { report } = await pool.run(bundle, roundTripPlan);
         // The runner's answer for a value no module has: proof the run went through a sandbox.
         assert.deepEqual(report.findings.map((f) => f.code), ['unresolved-target']);
         if (ready !== undefined) used.push(ready);
-        // After the reply: exactly one process is alive, the spare for the next check.
-        await waitFor(() => pool.processIds().length === 1);
       }
-      assert.equal(new Set(used).size, used.length, 'no process served two checks');
+      assert.equal(new Set(used).size, used.length, 'no process served two files');
+      // Each used process ends once no other target of its file follows; the spare stays.
       await waitFor(() => used.every((pid) => !isAlive(pid)));
+      await waitFor(() => pool.processIds().length === 1);
     } finally {
       const left = pool.processIds();
       pool.dispose();
       await waitFor(() => left.every((pid) => !isAlive(pid)));
+    }
+  });
+
+  test('the targets of one file, checked back to back, share its process', async () => {
+    const pool = new SandboxPool({ sandboxScript });
+    try {
+      const bundle = await project.bundle('export const value = 1;\n', 'oneFile.js');
+      const first = pool.run(bundle, roundTripPlan);
+      await waitFor(() => pool.processIds().length >= 1);
+      const [owner] = pool.processIds();
+      await first;
+      await pool.run(bundle, roundTripPlan);
+      assert.ok(pool.processIds().includes(owner), 'the second target ran where the first did');
+      assert.equal(new Set(pool.processIds()).size, 2, 'that process and one spare');
+    } finally {
+      pool.dispose();
     }
   });
 

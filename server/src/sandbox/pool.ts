@@ -1,6 +1,7 @@
 // The host side of the sandbox: permission-restricted Node processes running
-// dist/sandbox.js, each used for ONE check and then ended, with a spare started ahead
-// so a check does not wait for a process to boot. Every run resolves with a report;
+// dist/sandbox.js. A process serves the checks of one bundle only (the targets of one file,
+// back to back) and is ended once they are done; a spare is started ahead so a check does
+// not wait for a process to boot. Every run resolves with a report;
 // hangs, crashes, memory exhaustion (heap or resident set) and cancellation become findings.
 import { spawn, type ChildProcess } from 'node:child_process';
 import * as path from 'node:path';
@@ -37,6 +38,11 @@ export interface SandboxResult {
 const killGraceMs = 1500;
 /** How often a running check's resident memory is read. */
 const memoryPollMs = 50;
+/**
+ * How long a process that has run a bundle waits for another target of the same bundle before
+ * it is ended: a file's targets are checked back to back, so any pause means its check is over.
+ */
+const sameBundleWaitMs = 250;
 const stderrTailLength = 4000;
 const outOfMemoryPattern = /heap out of memory|Reached heap limit|Allocation failed/i;
 /**
@@ -67,6 +73,8 @@ interface Slot {
   timer: NodeJS.Timeout | null;
   memoryWatch: NodeJS.Timeout | null;
   stderrTail: string;
+  /** The bundle this process has run, if any: it may run nothing else. */
+  code: string | null;
 }
 
 /** A handle that can stop keeping the event loop alive (child process, IPC channel, pipe). */
@@ -130,15 +138,17 @@ export class SandboxPool {
     while (this.queue.length > 0 && !this.disposed) {
       const busy = this.slots.filter((slot) => slot.job !== null).length;
       if (busy >= this.size) break;
-      const slot = this.slots.find((candidate) => candidate.job === null) ?? this.spawn();
-      this.start(slot, this.queue.shift()!);
+      const job = this.queue.shift()!;
+      const idle = this.slots.filter((candidate) => candidate.job === null);
+      const slot = idle.find((candidate) => candidate.code === job.bundle.code) ?? idle.find((candidate) => candidate.code === null) ?? this.spawn();
+      this.start(slot, job);
     }
     this.keepSpare();
   }
 
-  /** One process started ahead and waiting, so the next check finds it booted. */
+  /** One process started ahead and waiting, never used, so the next file's check finds it booted. */
   private keepSpare(): void {
-    if (this.disposed || this.slots.some((slot) => slot.job === null)) return;
+    if (this.disposed || this.slots.some((slot) => slot.job === null && slot.code === null)) return;
     setReferenced(this.spawn(), false);
   }
 
@@ -151,7 +161,7 @@ export class SandboxPool {
       stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
       serialization: 'json',
     });
-    const slot: Slot = { child, job: null, timer: null, memoryWatch: null, stderrTail: '' };
+    const slot: Slot = { child, job: null, timer: null, memoryWatch: null, stderrTail: '', code: null };
     child.stderr?.setEncoding('utf8');
     child.stderr?.on('data', (text: string) => {
       slot.stderrTail = (slot.stderrTail + text).slice(-stderrTailLength);
@@ -169,7 +179,9 @@ export class SandboxPool {
   }
 
   private start(slot: Slot, job: Job): void {
+    if (slot.timer) clearTimeout(slot.timer);
     slot.job = job;
+    slot.code = job.bundle.code;
     setReferenced(slot, true);
     slot.timer = setTimeout(() => {
       this.retire(slot);
@@ -203,8 +215,13 @@ export class SandboxPool {
       return;
     }
     if (!isReplyTo(job.id, message)) return;
-    // One check per process: it ends itself after replying, and is killed here in case it does not.
-    this.retire(slot);
+    // The process may serve the next target of the same bundle, and nothing else: it is ended
+    // when none comes at once.
+    this.release(slot);
+    slot.timer = setTimeout(() => {
+      if (slot.job === null) this.retire(slot);
+    }, sameBundleWaitMs);
+    slot.timer.unref();
     // The reply is data from a process that ran user code: held to the report's shape and capped
     // before anything of it is used; locations come only from our own source mapping.
     const validated = validateReport(message.report);

@@ -1,6 +1,7 @@
 // Entry of dist/sandbox.js: the separate, permission-restricted Node process that
-// runs user code. It serves ONE request, in a fresh, bare vm context, and exits right
-// after its reply, so no state and no user callback outlives the check.
+// runs user code. It serves the checks of ONE module (one bundle), each in a fresh, bare vm
+// context; a request for any other code ends it. The host ends it when that module's checks
+// are done, so no state of one file's code ever meets another file's.
 // Only strings cross between this realm and the context, never host objects,
 // because any host object leads back to `process` through `.constructor.constructor`;
 // and the host never reads a property of a user value (a stack, a message) in its own realm,
@@ -8,7 +9,7 @@
 import * as vm from 'node:vm';
 import { types } from 'node:util';
 import runnerSource from 'slopecheck:in-context-runner';
-import type { PairReport } from '../engine/types';
+import { defaultCheckOptions, type PairReport } from '../engine/types';
 import type { SandboxReceipt, SandboxReply, SandboxRequest } from './protocol';
 import { errorReport, internalFinding, timeoutFinding } from './reports';
 import { bundleScriptName } from './sourceMap';
@@ -150,17 +151,43 @@ process.on('unhandledRejection', () => {
   process.stderr.write('slopecheck sandbox: unhandled rejection\n');
 });
 process.on('disconnect', () => reallyExit(0));
-// One request per process: the first is served, and the process ends once its reply is sent.
-let served = false;
+
+// A fresh process runs the engine cold. Before any user code arrives, one check of our own on a
+// fixed quadratic compiles the engine's bytecode and baseline code, which V8 keeps with the script
+// and shares with every later context: the first real check then runs warm. No user code is involved.
+const warmUpModule = [
+  'exports.objective = (x) => x[0] * x[0] + 3 * x[1] * x[1];',
+  'exports.gradient = (x) => [2 * x[0], 6 * x[1]];',
+  'globalThis.__slopecheckScope = { objective: () => exports.objective, gradient: () => exports.gradient };',
+].join('\n');
+handle({
+  id: 0,
+  code: warmUpModule,
+  timeoutMs: 5000,
+  plan: {
+    kind: 'gradient',
+    label: 'objective',
+    recipe: { host: null, value: 'objective', derivative: 'gradient', split: null, extraArguments: [] },
+    argumentKind: 'array',
+    probes: [],
+    probeKeys: [],
+    start: null,
+    dimension: 2,
+    learningRate: { name: 'rate', value: 0.1 },
+    options: defaultCheckOptions,
+  },
+});
+// One module per process: requests for the bundle of the first are served; any other code ends
+// the process before it runs (the host never sends one; this holds even if it did).
+let servedCode: string | null = null;
 process.on('message', (message: unknown) => {
-  if (served) return;
   if (!isRequest(message)) {
     process.stderr.write('slopecheck sandbox: ignored a malformed request\n');
     return;
   }
-  served = true;
+  if (servedCode !== null && message.code !== servedCode) reallyExit(0);
+  servedCode = message.code;
   const receipt: SandboxReceipt = { id: message.id, received: true };
   process.send?.(receipt);
-  const reply = handle(message);
-  process.send?.(reply, () => reallyExit(0));
+  process.send?.(handle(message));
 });
