@@ -110,3 +110,23 @@ test('return shapes are read from locals and helpers when no type is written (Ja
   );
   assert.deepEqual(pairNames(discoverPairs(text, 'fit.js')), [['mse', 'mseGrad']]);
 });
+
+test('`misfitSlope` is the gradient of `misfit`', () => {
+  assert.deepEqual(pairNames(discoverPairs(source(sum('misfit'), grad('misfitSlope')), 'fit.ts')), [['misfit', 'misfitSlope']]);
+});
+
+test('a function returning a vector from the same declared parameter as an unpaired objective is reported, whatever its name', () => {
+  const text = source(
+    'export class Reach {',
+    '  private tip(q: Float64Array): [number, number] { return [q[0], q[1]]; }',
+    '  distanceSq(q: Float64Array): number { return q[0] * q[0]; }',
+    '  jacobianTransposeResidual(q: Float64Array): Float64Array { return new Float64Array([2 * q[0]]); }',
+    '}',
+    'export const pick = new Reach();',
+  );
+  const result = discoverPairs(text, 'reach.ts');
+  assert.deepEqual(result.pairs, []);
+  // The private helper is no candidate; the public method is, with the tag that pairs it.
+  assert.deepEqual(fileFindingCodes(result), ['unpaired-function']);
+  assert.match(result.fileFindings[0].message, /`pick\.jacobianTransposeResidual` looks like a gradient.*If it is the gradient of `pick\.distanceSq`, tag it, e\.g\. \/\*\* @gradientOf distanceSq \*\//);
+});

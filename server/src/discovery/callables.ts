@@ -113,10 +113,10 @@ function instantiatedClass(value: ts.Expression, bindings: ModuleBindings): ts.C
   return bindings.byLocalName.get(value.expression.text)?.classNode;
 }
 
-/** Methods and function-valued fields of a class (not static, not private-named). */
+/** Public methods and function-valued fields of a class (not static, not `private`, `protected` or `#`-named). */
 function classMethods(classNode: ts.ClassDeclaration): Member[] {
   return classNode.members.flatMap((member): Member[] => {
-    if (!member.name || ts.isPrivateIdentifier(member.name) || isStatic(member)) return [];
+    if (!member.name || ts.isPrivateIdentifier(member.name) || hasModifier(member, ts.SyntaxKind.StaticKeyword) || hasModifier(member, ts.SyntaxKind.PrivateKeyword) || hasModifier(member, ts.SyntaxKind.ProtectedKeyword)) return [];
     const name = propertyNameText(member.name);
     if (name === undefined) return [];
     if (ts.isMethodDeclaration(member) && member.body) return [{ name, fn: member, nameNode: member.name, declaration: member, docHost: member }];
@@ -157,8 +157,8 @@ function localFunction(factory: FunctionNode, name: string): { fn: FunctionNode;
   return ts.isArrowFunction(value) || ts.isFunctionExpression(value) ? { fn: value, nameNode: local.name, declaration: local } : undefined;
 }
 
-function isStatic(member: ts.ClassElement): boolean {
-  return ts.canHaveModifiers(member) && (ts.getModifiers(member) ?? []).some((m) => m.kind === ts.SyntaxKind.StaticKeyword);
+function hasModifier(member: ts.ClassElement, kind: ts.SyntaxKind): boolean {
+  return ts.canHaveModifiers(member) && (ts.getModifiers(member) ?? []).some((m) => m.kind === kind);
 }
 
 /** No constructor, or one whose parameters are all optional or defaulted. */

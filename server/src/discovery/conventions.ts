@@ -19,7 +19,7 @@ export type NameRank = 1 | 2 | 3;
 
 /**
  * Objective names a derivative name points to, each with its rank:
- * 1 — the derivative names the objective whole: `lossGrad`, `gradLoss`, `loss_grad`, `costPrime`, `dLoss`, `df`, `gradF`;
+ * 1 — the derivative names the objective whole: `lossGrad`, `gradLoss`, `loss_grad`, `costPrime`, `misfitSlope`, `dLoss`, `df`, `gradF`;
  * 2 — both share a stem: `softmaxGrad` ↔ `softmaxLoss`, `residualGradient` ↔ `residualCost`.
  */
 export function objectiveNamesFor(derivative: string): Array<{ name: string; rank: NameRank }> {
@@ -29,7 +29,7 @@ export function objectiveNamesFor(derivative: string): Array<{ name: string; ran
     if (name !== '' && name !== derivative && !found.some((entry) => entry.name === name)) found.push({ name, rank });
   };
   let match: RegExpExecArray | null;
-  if ((match = /^(.+?)(?:Grad|Gradient|Prime|Deriv|Derivative|_grad|_gradient|_prime|_deriv)$/.exec(derivative))) {
+  if ((match = /^(.+?)(?:Grad|Gradient|Prime|Deriv|Derivative|Slope|_grad|_gradient|_prime|_deriv|_slope)$/.exec(derivative))) {
     add(match[1], 1);
     for (const word of objectiveWords) add(match[1] + capitalise(word), 2);
   }
@@ -65,7 +65,7 @@ export function isObjectiveLikeName(name: string): boolean {
 
 /** `lossGrad`, `dCost`, `gradient`: a name a derivative is given. */
 export function isDerivativeLikeName(name: string): boolean {
-  return isGenericDerivativeName(name) || objectiveNamesFor(name).length > 0 || /grad|deriv|prime/i.test(name);
+  return isGenericDerivativeName(name) || objectiveNamesFor(name).length > 0 || /grad|deriv|prime|slope/i.test(name);
 }
 
 /** `lossValueAndGradient`, `lossWithGradient`, `lossAndGrad`: one function returning both. */

@@ -138,12 +138,17 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
     matches.push({ group, objective: callable, gradient: null, split, matchedBy: 'combined', findings: [] });
   }
 
-  // 4. Nothing skipped silently: a gradient-like function left unpaired says why.
+  // 4. Nothing skipped silently: a function left unpaired that looks like a gradient — by its name, or
+  //    by returning a vector from the same declared parameter as an objective left unpaired — says why.
+  const objectives = group.callables.filter((c) => !used.has(c) && c.fn && canBeObjective(c) && shapeOf(c).kind === 'number');
+  const sameParameter = (a: Callable, b: Callable) => a.fn !== null && b.fn !== null && firstParameterText(a.fn) !== null && firstParameterText(a.fn) === firstParameterText(b.fn);
   for (const callable of group.callables) {
-    if (used.has(callable) || ambiguous.has(callable) || !(callable.exported || group.host) || !callable.fn || !callable.names.some(isDerivativeLikeName) || !canBeDerivative(callable)) continue;
-    const objectives = group.callables.filter((c) => c !== callable && !used.has(c) && c.fn && canBeObjective(c) && shapeOf(c).kind === 'number');
-    const reason = rejected.get(callable) ?? (objectives.length === 0 ? 'no function next to it returns a number' : 'no objective name matches it');
-    const tagHint = objectives.length > 0 ? ` If it is the gradient of ${listNames(objectives)}, tag it, e.g. /** @gradientOf ${objectives[0].name} */.` : ' Tag it /** @gradientOf name */ with its objective\'s name.';
+    if (used.has(callable) || ambiguous.has(callable) || !(callable.exported || group.host) || !callable.fn || !canBeDerivative(callable)) continue;
+    const byName = callable.names.some(isDerivativeLikeName);
+    if (!byName && !(shapeOf(callable).kind === 'vector' && objectives.some((o) => o !== callable && sameParameter(o, callable)))) continue;
+    const candidates = objectives.filter((c) => c !== callable);
+    const reason = rejected.get(callable) ?? (candidates.length === 0 ? 'no function next to it returns a number' : 'no objective name matches it');
+    const tagHint = candidates.length > 0 ? ` If it is the gradient of ${listNames(candidates)}, tag it, e.g. /** @gradientOf ${candidates[0].name} */.` : ' Tag it /** @gradientOf name */ with its objective\'s name.';
     note('unpaired-function', callable.nameNode, `\`${callable.label}\` looks like a gradient but was not paired: ${reason}.${tagHint}`);
   }
 }
