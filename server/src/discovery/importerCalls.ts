@@ -5,11 +5,10 @@
 // importer's own scope.
 import * as ts from 'typescript';
 import type { CallRecipe } from '../engine/types';
-import type { Callable } from './callables';
 import { isStartName } from './conventions';
 import { collectBindings, unwrapParentheses, type ModuleBindings } from './exports';
 import { specifierNames, type SourceText } from './importers';
-import type { PairMatch } from './pairing';
+import { pairFunctions, type PairMatch } from './pairing';
 import { enclosingFunction, localInitializer, looksLikePoint, moduleLevelText } from './references';
 
 /** The namespace the hook imports the document under, in the importer's scope. */
@@ -59,7 +58,7 @@ function importsOf(sourceFile: ts.SourceFile, documentFile: string): ImportedNam
  * `extraCount` and `optional` describe the parameters after the point.
  */
 export function readImporterInvocation(match: PairMatch, documentFile: string, extraCount: number, optional: (index: number) => boolean, importers: readonly SourceText[]): ImporterInvocation | null {
-  const functions: Callable[] = match.gradient ? [match.objective, match.gradient] : [match.objective];
+  const functions = pairFunctions(match);
   const host = match.group.host;
   // Through the namespace the hook imports, under the names the document exports.
   const exported = (names: string[]) => names[0];

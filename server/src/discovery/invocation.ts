@@ -6,13 +6,12 @@ import * as ts from 'typescript';
 import type { CallRecipe, DeclaredParameter, Finding } from '../engine/types';
 import { declaredParameter } from './signatures';
 import type { TypeDeclarations } from './typeShapes';
-import type { Callable } from './callables';
 import { isStartName, tagNames } from './conventions';
 import { unwrapParentheses, type FunctionNode, type ModuleBindings } from './exports';
-import type { PairMatch } from './pairing';
+import { pairFunctions, type PairMatch } from './pairing';
 import { readImporterInvocation, documentNamespace, type ImporterEntry } from './importerCalls';
 import type { SourceText } from './importers';
-import { callsOf, callsOfFunction, enclosingFunction, localInitializer, looksLikePoint, moduleLevelText, refersTo } from './references';
+import { callsOf, callsOfFunction, enclosingFunction, localInitializer, looksLikePoint, mentionsPair, moduleLevelText, pairSites } from './references';
 import { spanOfNode } from './spans';
 import { readTags } from './tags';
 import type { SourceSpan } from './types';
@@ -33,11 +32,6 @@ export interface Invocation {
   /** Where each scope key was named, so a value that fails at run time is reported there. */
   keySpans: Record<string, SourceSpan>;
   findings: Finding[];
-}
-
-/** The functions of a pair, in the order their calls are searched. */
-function pairFunctions(match: PairMatch): Callable[] {
-  return match.gradient ? [match.objective, match.gradient] : [match.objective];
 }
 
 /** `dimension`: the number of coordinates the signature states, if it does; a start of another length is not this pair's. */
@@ -160,40 +154,24 @@ function linkedStarts(sourceFile: ts.SourceFile, bindings: ModuleBindings, match
     const text = moduleLevelText(expression, bindings);
     if (text !== null && !found.some((f) => f.text === text)) found.push({ text, node: expression });
   };
-  const functions = pairFunctions(match);
-  const mentionsPair = (argument: ts.Expression): boolean => {
-    let hit = false;
-    const visit = (node: ts.Node): void => {
-      if (hit) return;
-      if (ts.isExpression(node) && functions.some((c) => refersTo(node, match.group, c))) hit = true;
-      else if (match.group.host && ts.isIdentifier(node) && node.text === match.group.host.key) hit = true;
-      else ts.forEachChild(node, visit);
-    };
-    visit(argument);
-    return hit;
-  };
-  const visit = (node: ts.Node): void => {
-    if (ts.isCallExpression(node)) {
-      const direct = functions.some((c) => refersTo(node.expression, match.group, c));
-      if (direct) {
-        // A training loop: the point's own initial value in the function around the call.
-        const point = node.arguments[0] && unwrapParentheses(node.arguments[0]);
-        const fn = enclosingFunction(node);
-        if (point && ts.isIdentifier(point) && fn) {
-          const initial = localInitializer(fn, point.text);
-          if (initial) add(initial);
-          // `function fit(start) { let w = start.slice(); … }` called as `fit([5.5, 20])`: the caller's point.
-          const source = initial ? copiedFrom(initial) : point;
-          const index = source ? fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === source.text) : -1;
-          if (index >= 0) for (const call of callsOfFunction(sourceFile, fn)) if (call.arguments[index]) add(call.arguments[index]);
-        }
-      } else if (node.arguments.some(mentionsPair)) {
-        for (const argument of node.arguments) if (!mentionsPair(argument)) add(argument);
+  for (const site of pairSites(sourceFile, match)) {
+    const node = site.node;
+    if (site.kind === 'call') {
+      // A training loop: the point's own initial value in the function around the call.
+      const point = node.arguments[0] && unwrapParentheses(node.arguments[0]);
+      const fn = enclosingFunction(node);
+      if (point && ts.isIdentifier(point) && fn) {
+        const initial = localInitializer(fn, point.text);
+        if (initial) add(initial);
+        // `function fit(start) { let w = start.slice(); … }` called as `fit([5.5, 20])`: the caller's point.
+        const source = initial ? copiedFrom(initial) : point;
+        const index = source ? fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === source.text) : -1;
+        if (index >= 0) for (const call of callsOfFunction(sourceFile, fn)) if (call.arguments[index]) add(call.arguments[index]);
       }
+    } else {
+      for (const argument of node.arguments) if (!mentionsPair(argument, match)) add(argument);
     }
-    ts.forEachChild(node, visit);
-  };
-  visit(sourceFile);
+  }
   return found;
 }
 

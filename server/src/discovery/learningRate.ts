@@ -4,12 +4,11 @@
 // has exactly one pair, a module-level const or options field with a conventional name.
 import * as ts from 'typescript';
 import type { DeclaredRate as PlanRate } from '../engine/types';
-import type { Callable } from './callables';
 import { evaluateNumber } from './constant';
 import { learningRateNames, momentumNames, tagNames } from './conventions';
 import { unwrapParentheses, type ModuleBindings } from './exports';
 import type { PairMatch } from './pairing';
-import { enclosingFunction, fieldNumber, refersTo, resolveNumber, type NumberReference } from './references';
+import { enclosingFunction, fieldNumber, pairSites, resolveNumber, type NumberReference } from './references';
 import { spanOfNode } from './spans';
 import { firstWord, readTags } from './tags';
 import { propertyNameText } from './typeShapes';
@@ -52,8 +51,7 @@ export function assignLearningRates(
 
   // 2. The update of a training loop that calls the pair, and options handed to an optimizer with it.
   for (const match of matches) {
-    const functions = match.gradient ? [match.gradient, match.objective] : [match.objective];
-    for (const site of usesOf(sourceFile, match, functions)) {
+    for (const site of pairSites(sourceFile, match)) {
       if (rates.has(match)) break;
       if (site.kind === 'call') {
         const fn = enclosingFunction(site.node);
@@ -74,24 +72,6 @@ export function assignLearningRates(
     }
   }
   return { rates, fileFindings };
-}
-
-/** Calls of the pair's functions (a training loop) and calls that are handed them (an optimizer). */
-function usesOf(sourceFile: ts.SourceFile, match: PairMatch, functions: Callable[]): Array<{ kind: 'call' | 'handed'; node: ts.CallExpression }> {
-  const sites: Array<{ kind: 'call' | 'handed'; node: ts.CallExpression }> = [];
-  const mentions = (node: ts.Node): boolean =>
-    (ts.isExpression(node) && functions.some((c) => refersTo(node, match.group, c))) ||
-    (!!match.group.host && ts.isIdentifier(node) && node.text === match.group.host.key) ||
-    (ts.forEachChild(node, (child) => mentions(child) || undefined) ?? false);
-  const visit = (node: ts.Node): void => {
-    if (ts.isCallExpression(node)) {
-      if (functions.some((c) => refersTo(node.expression, match.group, c))) sites.push({ kind: 'call', node });
-      else if (node.arguments.some(mentions)) sites.push({ kind: 'handed', node });
-    }
-    ts.forEachChild(node, visit);
-  };
-  visit(sourceFile);
-  return sites;
 }
 
 /**

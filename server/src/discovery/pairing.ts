@@ -25,6 +25,11 @@ export interface PairMatch {
 
 type FileFinding = DiscoveryResult['fileFindings'][number];
 
+/** The functions of a pair: the objective, then its derivative when it has one of its own. */
+export function pairFunctions(match: PairMatch): Callable[] {
+  return match.gradient ? [match.objective, match.gradient] : [match.objective];
+}
+
 interface Proposal {
   derivative: Callable;
   objective: Callable;

@@ -5,20 +5,45 @@ import * as ts from 'typescript';
 import type { Callable, CallableGroup } from './callables';
 import { evaluateNumber } from './constant';
 import { unwrapParentheses, type ModuleBindings, type TopLevelBinding } from './exports';
+import { pairFunctions, type PairMatch } from './pairing';
 import { propertyNameText } from './typeShapes';
 
 /** ECMAScript globals an expression of module-level values may also use. */
 const knownGlobals = new Set(['Math', 'Number', 'Array', 'Float64Array', 'Float32Array', 'Object', 'JSON', 'Infinity', 'NaN', 'undefined']);
 
-/** Every call of `callable` in the file: `loss(…)`, or `model.loss(…)` for a host's method. */
-export function callsOf(sourceFile: ts.SourceFile, group: CallableGroup, callable: Callable): ts.CallExpression[] {
+/** Every call in the file that `test` accepts, in document order. */
+function callsWhere(sourceFile: ts.SourceFile, test: (call: ts.CallExpression) => boolean): ts.CallExpression[] {
   const calls: ts.CallExpression[] = [];
   const visit = (node: ts.Node): void => {
-    if (ts.isCallExpression(node) && refersTo(node.expression, group, callable)) calls.push(node);
+    if (ts.isCallExpression(node) && test(node)) calls.push(node);
     ts.forEachChild(node, visit);
   };
   visit(sourceFile);
   return calls;
+}
+
+/** Every call of `callable` in the file: `loss(…)`, or `model.loss(…)` for a host's method. */
+export function callsOf(sourceFile: ts.SourceFile, group: CallableGroup, callable: Callable): ts.CallExpression[] {
+  return callsWhere(sourceFile, (call) => refersTo(call.expression, group, callable));
+}
+
+/** True when `node` names one of the pair's functions, or its host, anywhere inside it. */
+export function mentionsPair(node: ts.Node, match: PairMatch): boolean {
+  if (ts.isExpression(node) && pairFunctions(match).some((c) => refersTo(node, match.group, c))) return true;
+  if (match.group.host && ts.isIdentifier(node) && node.text === match.group.host.key) return true;
+  return ts.forEachChild(node, (child) => mentionsPair(child, match) || undefined) ?? false;
+}
+
+/**
+ * Where the file uses a pair, in document order: calls of its functions (`kind: 'call'`, a
+ * training loop) and calls that are handed them or their host (`kind: 'handed'`, an optimizer).
+ */
+export function pairSites(sourceFile: ts.SourceFile, match: PairMatch): Array<{ kind: 'call' | 'handed'; node: ts.CallExpression }> {
+  const callsPairFunction = (call: ts.CallExpression) => pairFunctions(match).some((c) => refersTo(call.expression, match.group, c));
+  return callsWhere(sourceFile, (call) => callsPairFunction(call) || call.arguments.some((argument) => mentionsPair(argument, match))).map((node) => ({
+    kind: callsPairFunction(node) ? 'call' : 'handed',
+    node,
+  }));
 }
 
 /** `loss` (module function) or `model.loss` (host method), as written at a call or passed as a value. */
@@ -251,11 +276,5 @@ function memberPath(node: ts.PropertyAccessExpression): string[] | null {
 export function callsOfFunction(sourceFile: ts.SourceFile, fn: ts.SignatureDeclaration): ts.CallExpression[] {
   const name = ts.isFunctionDeclaration(fn) ? fn.name?.text : ts.isVariableDeclaration(fn.parent) && ts.isIdentifier(fn.parent.name) ? fn.parent.name.text : undefined;
   if (name === undefined) return [];
-  const calls: ts.CallExpression[] = [];
-  const visit = (node: ts.Node): void => {
-    if (ts.isCallExpression(node) && ts.isIdentifier(node.expression) && node.expression.text === name) calls.push(node);
-    ts.forEachChild(node, visit);
-  };
-  visit(sourceFile);
-  return calls;
+  return callsWhere(sourceFile, (call) => ts.isIdentifier(call.expression) && call.expression.text === name);
 }

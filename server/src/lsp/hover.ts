@@ -4,7 +4,7 @@ import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import type { RateStatus } from '../engine/types';
 import { documentNamespace } from '../discovery/importerCalls';
-import { baseName, describeCall, describeDiagnosis, shortNumber, verdictWords } from '../shared/wording';
+import { baseName, describeCall, describeDiagnosis, shortNumber, verdictWords, withoutNamespace } from '../shared/wording';
 
 export type NameRole = 'objective' | 'gradient' | 'learningRate';
 
@@ -51,7 +51,7 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
     rows.push([`learning rate \`${rate.name}\` = ${rate.value}`, rateWords[rate.status] + momentum]);
   }
   rows.push(['called as', `\`${describeCall(pair.plan, documentNamespace)}\`${pair.entry ? ` with the data of ${baseName(pair.entry.fileName)}, line ${pair.entry.line}` : ''}`]);
-  if (pair.plan.start !== null && report.probes.length > 0) rows.push(['probe 1', `your start \`${pair.plan.start.replace(`${documentNamespace}.`, '')}\`; the others perturb it`]);
+  if (pair.plan.start !== null && report.probes.length > 0) rows.push(['probe 1', `your start \`${withoutNamespace(pair.plan.start, documentNamespace)}\`; the others perturb it`]);
   if (report.probes.length > 0) rows.push(['probes', describeProbes(report.probes.map((p) => p.point), report.dimension)]);
   rows.push(['work', `${report.evaluations.objective} objective and ${report.evaluations.gradient} gradient evaluations in ${Math.round(report.elapsedMs)} ms`]);
 

@@ -3,14 +3,15 @@
 // Runs inside the vm context; no Node APIs.
 
 import { plainJson } from './plainJson';
+import { reportLimits } from './reportLimits';
 
 // plainJson captures its built-ins before user code runs and ignores an inherited toJSON,
 // so a module that pollutes its realm cannot break the hand-over.
 const stringify = plainJson;
 
-const maxLines = 200;
-const maxBytes = 20_000;
-const maxLineLength = 2_000;
+const maxLines = reportLimits.consoleLines;
+const maxBytes = reportLimits.consoleLength;
+const maxLineLength = reportLimits.consoleLineLength;
 const maxItems = 20;
 
 const lines: string[] = [];

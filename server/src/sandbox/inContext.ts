@@ -9,6 +9,8 @@ import { plainJson } from './plainJson';
 import { installProcessStandIn } from './processStandIn';
 import { errorReport, internalFinding } from './reports';
 import { scopeHookGlobal } from './scopeHook';
+import { cut } from './untrustedValues';
+import { reportLimits } from './reportLimits';
 
 export { installConsole, installProcessStandIn, takeConsole };
 
@@ -173,15 +175,11 @@ function resolveHost(read: (key: string) => Read, host: NonNullable<CheckPlan['r
 }
 
 // What user code can make long — messages and stacks of what it throws — is cut here, inside the
-// context, so a huge string never crosses to the host (the host validates and caps again).
-const maxMessage = 2_000;
-const maxStack = 8_000;
-const cut = (text: string, max: number) => (text.length > max ? `${text.slice(0, max)}… (${text.length - max} more characters cut)` : text);
-
+// context, to the caps the host holds reports to, so a huge string never crosses to the host.
 function capped(report: PairReport): PairReport {
   for (const finding of report.findings) {
-    finding.message = cut(String(finding.message), maxMessage);
-    if (typeof finding.stack === 'string') finding.stack = cut(finding.stack, maxStack);
+    finding.message = cut(String(finding.message), reportLimits.messageLength);
+    if (typeof finding.stack === 'string') finding.stack = cut(finding.stack, reportLimits.stackLength);
   }
   return report;
 }

@@ -29,12 +29,17 @@ export function shortNumber(x: number | null | undefined, digits = 3): string {
  */
 export function describeCall(plan: Pick<CheckPlan, 'recipe'>, namespace?: string): string {
   const { recipe } = plan;
-  const plain = (key: string) => (namespace && key.startsWith(`${namespace}.`) ? key.slice(namespace.length + 1) : key);
+  const plain = (key: string) => withoutNamespace(key, namespace);
   const host = recipe.host ? (recipe.host.construct ? `new ${plain(recipe.host.key)}()` : plain(recipe.host.key)) : null;
   const args = ['x', ...recipe.extraArguments.map((a) => a ?? '(default)')].join(', ');
   const call = (fn: string) => `${host ? `${host}.` : ''}${plain(fn)}(${args})`;
   if (recipe.split) return `${call(recipe.value)}: value [${JSON.stringify(recipe.split.value)}], gradient [${JSON.stringify(recipe.split.derivative)}]`;
   return recipe.derivative === null ? call(recipe.value) : `${call(recipe.value)} and ${call(recipe.derivative)}`;
+}
+
+/** A scope key as the user writes it: without the namespace an importing entry reaches the document by. */
+export function withoutNamespace(key: string, namespace?: string): string {
+  return namespace && key.startsWith(`${namespace}.`) ? key.slice(namespace.length + 1) : key;
 }
 
 /** The last part of a path, whichever separator the platform writes. */
