@@ -123,7 +123,7 @@ test('the discovery cache keeps one version per open document and forgets closed
 });
 
 test('patch verdicts stay within their bound', async () => {
-  const verifier = new PatchVerifier(() => runnerWithReports(0), 10);
+  const verifier = new PatchVerifier(() => runnerWithReports(0), { capacity: 10 });
   const text = (k: number) => `/** @probe [1] */\nexport function f(x: number[]) { return x[0] * ${k}; }\nexport function fGrad(x: number[]) { return [${k}]; }\n`;
   for (let k = 0; k < 30; k++) {
     // The stand-in's report fails, so no patch passes.

@@ -45,6 +45,9 @@ export interface CheckDocumentHooks {
   workspaceRoot?: string;
 }
 
+/** What a check knows of the workspace around a file: its folder and the files that import it. */
+export type WorkspaceContext = Pick<CheckDocumentHooks, 'importersOf' | 'workspaceRoot'>;
+
 /** Codes found by discovery that leave nothing to run. */
 const blockingCodes = new Set(['unknown-dimension', 'bad-probe', 'missing-export', 'missing-argument']);
 

@@ -1,9 +1,8 @@
 // When and how each open document is checked: on open and save, or while typing after a
 // pause; a newer check cancels the older one, and a stale result is never published.
 // Knows nothing of the LSP connection: the server passes callbacks, tests pass their own.
-import { checkDocument, type DocumentCheck, type PairOutcome } from '../check/checkDocument';
+import { checkDocument, type DocumentCheck, type PairOutcome, type WorkspaceContext } from '../check/checkDocument';
 import type { CachedRunner } from '../check/runCache';
-import type { SourceText } from '../discovery/importers';
 import { defaultCheckOptions, type CheckOptions, type PairStatus } from '../engine/types';
 import type { DocumentSummaryParams } from '../shared/protocol';
 import type { SlopecheckSettings } from '../shared/settings';
@@ -21,10 +20,8 @@ export interface DocumentChecksHost {
   summary(params: DocumentSummaryParams): void;
   /** Null when the client does not show server-initiated progress. */
   progress: ProgressFactory | null;
-  /** Workspace files that import a document; absent when the server knows no workspace. */
-  importersOf?(fileName: string): Promise<readonly SourceText[]>;
-  /** The workspace folder holding a document, the only folder its bundles read; absent or undefined: the document's own folder. */
-  workspaceRoot?(fileName: string): string | undefined;
+  /** The workspace around a document (its folder, the files importing it); absent: the document stands alone. */
+  workspace?(fileName: string): WorkspaceContext;
   log(message: string): void;
 }
 
@@ -160,8 +157,7 @@ export class DocumentChecks {
       const runner = bypassCache ? this.host.runner.uncached() : this.host.runner;
       const check = await checkDocument(text, state.fileName, runner, checkOptions(this.host.settings()), controller.signal, {
         onPairChecked: (done, total, objective) => progress?.pairChecked(done, total, objective),
-        importersOf: this.host.importersOf,
-        workspaceRoot: this.host.workspaceRoot?.(state.fileName),
+        ...this.host.workspace?.(state.fileName),
       });
       if (!isCurrent()) return;
       state.check = check;

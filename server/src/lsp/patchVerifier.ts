@@ -1,18 +1,23 @@
 // A gradient fix is offered only once the patched text has passed the check in the
 // sandbox. Verdicts are remembered by patched text, pair and options.
 import { createHash } from 'node:crypto';
-import { checkDocument, type PairRunner } from '../check/checkDocument';
+import { checkDocument, type PairRunner, type WorkspaceContext } from '../check/checkDocument';
 import type { CheckOptions } from '../engine/types';
 
 export class PatchVerifier {
   private readonly verdicts = new Map<string, Promise<boolean>>();
 
+  private readonly capacity: number;
+  private readonly workspace: (fileName: string) => WorkspaceContext;
+
+  /** `workspace`: the same view of the workspace the file's own checks get, so a patch is checked as they are. */
   constructor(
     private readonly runner: () => PairRunner,
-    private readonly capacity = 100,
-    /** The workspace folder holding a file, the only folder its bundles read; undefined: the file's own folder. */
-    private readonly workspaceRoot: (fileName: string) => string | undefined = () => undefined,
-  ) {}
+    options: { capacity?: number; workspace?: (fileName: string) => WorkspaceContext } = {},
+  ) {
+    this.capacity = options.capacity ?? 100;
+    this.workspace = options.workspace ?? (() => ({}));
+  }
 
   /** True when `objective`'s pair passes in `patchedText`. A cancelled verification is forgotten. */
   passes(patchedText: string, fileName: string, objective: string, options: CheckOptions, signal?: AbortSignal): Promise<boolean> {
@@ -21,7 +26,7 @@ export class PatchVerifier {
     if (known) return known;
     const verdict = checkDocument(patchedText, fileName, this.runner(), options, signal, {
       onlyObjective: objective,
-      workspaceRoot: this.workspaceRoot(fileName),
+      ...this.workspace(fileName),
     }).then(
       (check) => !signal?.aborted && check.pairs.length === 1 && check.pairs[0].report.status === 'pass',
       () => false,

@@ -5,6 +5,7 @@ import {
   CodeActionKind, CodeLensRefreshRequest, DidChangeConfigurationNotification, TextDocumentSyncKind, TextDocuments, type Connection, type InitializeParams,
 } from 'vscode-languageserver';
 import { TextDocument } from 'vscode-languageserver-textdocument';
+import type { WorkspaceContext } from '../check/checkDocument';
 import { CachedRunner } from '../check/runCache';
 import { discoverPairs } from '../discovery/discover';
 import { isInside } from '../sandbox/confine';
@@ -35,9 +36,14 @@ export function startServer(connection: Connection): void {
   let ready!: Promise<void>;
   /** The workspace folders the client named (file URIs only); a document's bundles read only inside the one holding it. */
   let folders: string[] = [];
-  const workspaceRoot = (fileName: string) => folderHolding(folders, fileName);
+  let sources: WorkspaceSources | null = null;
+  // One view of the workspace for a file's checks and for the checks of its patches.
+  const workspace = (fileName: string): WorkspaceContext => ({
+    workspaceRoot: folderHolding(folders, fileName),
+    importersOf: sources && folders.length > 0 ? (target) => sources!.importersOf(target) : undefined,
+  });
   const runner = new CachedRunner(() => pool ?? (pool = createPool(settings.current)));
-  const verifier = new PatchVerifier(() => runner, undefined, workspaceRoot);
+  const verifier = new PatchVerifier(() => runner, { workspace });
   let checks!: DocumentChecks;
 
   connection.onInitialize((params: InitializeParams) => {
@@ -50,7 +56,7 @@ export function startServer(connection: Connection): void {
     settings = new SettingsSource(connection, capabilities.workspace?.configuration === true);
     folders = (params.workspaceFolders ?? (params.rootUri ? [{ uri: params.rootUri }] : [])).filter((folder) => folder.uri.startsWith('file:')).map((folder) => fileNameOf(folder.uri));
     const openText = (fileName: string) => documents.all().find((document) => fileNameOf(document.uri) === fileName)?.getText();
-    const sources = new WorkspaceSources(() => folders, openText);
+    sources = new WorkspaceSources(() => folders, openText);
     checks = new DocumentChecks({
       runner,
       settings: () => settings.current,
@@ -63,8 +69,7 @@ export function startServer(connection: Connection): void {
       summary: (summary) => void connection.sendNotification(methods.documentSummary, summary),
       progress: capabilities.window?.workDoneProgress ? () => connection.window.createWorkDoneProgress() : null,
       log: (message) => connection.console.error(message),
-      importersOf: folders.length > 0 ? (fileName) => sources.importersOf(fileName) : undefined,
-      workspaceRoot,
+      workspace,
     });
     return {
       capabilities: {
