@@ -44,6 +44,13 @@ function accuracyTable(s: CheckerTally, b: CheckerTally): string {
 }
 
 /** Each target of the product against what this run measured; a section not run is left out. */
+/**
+ * Save-to-diagnostics median with one sandbox process reused for every file, measured with this
+ * bench's paced saves on the 2-core bench machine (2026-12-02) at the last commit before each
+ * check got a fresh process (e8f5172). The containment work may add at most 20 ms to it.
+ */
+const reusedProcessMedianMs = 43.5;
+
 export function targetsTable(results: BenchResults): string {
   const rows: Array<[string, string, boolean]> = [];
   const a = results.accuracy;
@@ -93,6 +100,11 @@ export function targetsTable(results: BenchResults): string {
   const l = results.latency;
   if (l && l.medianMs !== null) {
     rows.push(['save → diagnostics: median ≤ 150 ms', `${fmt(l.medianMs, 3)} ms`, l.medianMs <= 150]);
+    rows.push([
+      `save → diagnostics: median at most 20 ms above one reused sandbox process (${reusedProcessMedianMs} ms)`,
+      `${fmt(l.medianMs, 3)} ms (+${fmt(l.medianMs - reusedProcessMedianMs, 3)} ms)`,
+      l.medianMs <= reusedProcessMedianMs + 20,
+    ]);
     rows.push(['save → diagnostics: 95th percentile ≤ 400 ms', `${fmt(l.p95Ms!, 3)} ms`, l.p95Ms! <= 400]);
     const fixtures = l.fixtures ?? [];
     const slowest = fixtures.reduce((worst, f) => (f.medianMs > worst.medianMs ? f : worst), fixtures[0]);
@@ -103,7 +115,7 @@ export function targetsTable(results: BenchResults): string {
         fixtures.every((f) => f.medianMs <= 150 && f.p95Ms <= 400),
       ]);
     }
-    rows.push(['server + sandbox RSS after 1000 checks ≤ 200 MB', `${fmt(l.rssMb!, 3)} MB (server ${fmt(l.serverRssMb ?? NaN, 3)}, sandbox ${fmt(l.sandboxRssMb ?? NaN, 3)})`, l.rssMb! <= 200]);
+    rows.push(['server + sandbox RSS at rest after 1000 checks ≤ 200 MB', `${fmt(l.rssMb!, 3)} MB (server ${fmt(l.serverRssMb ?? NaN, 3)}, sandbox ${fmt(l.sandboxRssMb ?? NaN, 3)})`, l.rssMb! <= 200]);
     // "No growth": within 2 % of the total, the noise of RSS readings between samples.
     rows.push(['no memory growth over the last 500 checks', `${fmt(l.growthOverLast500Mb ?? NaN, 3)} MB`, (l.growthOverLast500Mb ?? Infinity) <= 0.02 * l.rssMb!]);
   }
@@ -152,8 +164,10 @@ export function markdown(results: BenchResults): string {
     if (l.medianMs === null) parts.push('### Editor latency', `Not measured: ${l.note}`);
     else {
       parts.push('### Editor latency (dist/server.js over stdio, save → diagnostics)', table(['fixture', 'median (ms)', 'p95 (ms)'], (l.fixtures ?? []).map((f) => [f.file, fmt(f.medianMs, 3), fmt(f.p95Ms, 3)])));
-      parts.push(`All saves: median ${fmt(l.medianMs, 3)} ms, p95 ${fmt(l.p95Ms!, 3)} ms; first check after start ${fmt(l.firstCheckMs!, 3)} ms (${fmt(l.startToFirstDiagnosticsMs ?? NaN, 3)} ms from process start). ` +
-        `Memory after ${l.checks} checks: server ${fmt(l.serverRssMb ?? NaN, 3)} MB + sandbox ${fmt(l.sandboxRssMb ?? NaN, 3)} MB = ${fmt(l.rssMb!, 3)} MB RSS; growth over the last 500 checks ${fmt(l.growthOverLast500Mb ?? NaN, 3)} MB.`);
+      parts.push(`All saves, each ${l.editPauseMs ?? '?'} ms after the previous diagnostics: median ${fmt(l.medianMs, 3)} ms, p95 ${fmt(l.p95Ms!, 3)} ms. ` +
+        `Back to back (each save the moment the previous diagnostics arrive, so every check waits for a process to boot): median ${fmt(l.backToBackMedianMs ?? NaN, 3)} ms, p95 ${fmt(l.backToBackP95Ms ?? NaN, 3)} ms. ` +
+        `First check after start ${fmt(l.firstCheckMs!, 3)} ms (${fmt(l.startToFirstDiagnosticsMs ?? NaN, 3)} ms from process start). ` +
+        `Memory at rest after ${l.checks} checks: server ${fmt(l.serverRssMb ?? NaN, 3)} MB + sandbox ${fmt(l.sandboxRssMb ?? NaN, 3)} MB = ${fmt(l.rssMb!, 3)} MB RSS (at most ${fmt(l.peakRssMb ?? NaN, 3)} MB while checks ran back to back); growth over the last 500 checks ${fmt(l.growthOverLast500Mb ?? NaN, 3)} MB.`);
     }
   }
   return parts.join('\n\n') + '\n';

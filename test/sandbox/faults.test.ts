@@ -208,8 +208,8 @@ describe('sandbox processes', () => {
       const queued = new AbortController();
       const hang = runModule('for (;;) {}\n', single, roundTripPlan, running.signal);
       const waiting = runModule('exports.value = 1;\n', single, roundTripPlan, queued.signal);
-      // The running check's process, and the spare started ahead.
-      await waitFor(() => single.processIds().length === 2);
+      // The running check's process; no spare boots while a check runs.
+      await waitFor(() => single.processIds().length === 1);
       const pid = single.processIds()[0];
       queued.abort();
       const cancelled = await waiting;

@@ -61,14 +61,14 @@ ${replyWith('outcomes')}`,
     const pool = new SandboxPool({ sandboxScript: script, timeoutMs: 200 });
     try {
       const running = runOn(pool);
-      // The silent check's process comes first; the spare started ahead second.
-      await waitFor(() => pool.processIds().length === 2);
+      // The silent check's process alone: no spare boots while a check runs.
+      await waitFor(() => pool.processIds().length === 1);
       const [silentPid] = pool.processIds();
       const silent = await running;
       assert.deepEqual(silent.report.findings.map((f) => [f.code, f.severity]), [['timeout', 'error']]);
-      // Only the spare is left, never the silent process.
-      assert.equal(pool.processIds().length, 1);
-      assert.ok(!pool.processIds().includes(silentPid));
+      assert.ok(!pool.processIds().includes(silentPid), 'the silent process is gone');
+      // Then only the spare, started once the pool is idle.
+      await waitFor(() => pool.processIds().length === 1);
       const answered = await pool.run(await project.bundle("exports.answer = 1;\n", 'main.js'), roundTripPlan);
       assert.deepEqual(answered.console, ['answered']);
       // The answering process ends once no other target of its file follows; the spare stays.
@@ -88,8 +88,29 @@ ${replyWith('outcomes')}`,
       assert.match(report.findings[0].message, /exit code 7/);
       assert.match(report.findings[0].message, /something broke inside/);
       // No restart loop: one spare waits, as after any check, and nothing else is started.
-      await new Promise((resolve) => setImmediate(resolve));
-      assert.equal(pool.processIds().length, 1);
+      await waitFor(() => pool.processIds().length === 1);
+      const spare = pool.processIds();
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      assert.deepEqual(pool.processIds(), spare);
+    } finally {
+      pool.dispose();
+    }
+  });
+
+  test('a sandbox that cannot boot is not started again and again', async () => {
+    const script = project.write('unbootable.js', "process.stderr.write('bad flags\\n');\nprocess.exit(9);\n");
+    const pool = new SandboxPool({ sandboxScript: script });
+    try {
+      const { report } = await runOn(pool);
+      assert.equal(report.findings[0].code, 'sandbox-crash');
+      assert.match(report.findings[0].message, /bad flags/);
+      // The spare started after the crash dies at boot as well, and is not replaced until a check asks.
+      await new Promise((resolve) => setTimeout(resolve, 600));
+      assert.deepEqual(pool.processIds(), []);
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      assert.deepEqual(pool.processIds(), []);
+      const again = await runOn(pool);
+      assert.equal(again.report.findings[0].code, 'sandbox-crash', 'the next check still gets a plain answer');
     } finally {
       pool.dispose();
     }

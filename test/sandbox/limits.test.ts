@@ -5,7 +5,7 @@ import { spawnSync } from 'node:child_process';
 import { once } from 'node:events';
 import * as net from 'node:net';
 import { after, describe, test } from 'node:test';
-import { networkNamespaceAvailable, sandboxLaunch } from '../../server/src/sandbox/launch';
+import { networkWrapperFor, sandboxLaunch, workingNetworkWrapper } from '../../server/src/sandbox/launch';
 import { SandboxPool } from '../../server/src/sandbox/pool';
 import { residentBytes } from '../../server/src/sandbox/residentMemory';
 import { sandboxScript } from '../support/paths';
@@ -51,7 +51,7 @@ describe('limits beyond the heap cap', () => {
       const launch = sandboxLaunch(probe, 64, 1);
       if (launch.network === 'none') {
         // Nothing to deny with here: the launcher must say so rather than claim a confinement.
-        assert.equal(networkNamespaceAvailable(), false);
+        assert.equal(workingNetworkWrapper(), null);
         assert.equal(process.allowedNodeEnvironmentFlags.has('--allow-net'), false);
         return;
       }
@@ -61,5 +61,25 @@ describe('limits beyond the heap cap', () => {
     } finally {
       server.close();
     }
+  });
+
+  // Only the Linux wrapper is run here (test above); the macOS one is checked for what it asks of
+  // sandbox-exec, and is tried once on the machine itself before it is used (workingNetworkWrapper).
+  test('each platform gets its own network wrapper, or none', () => {
+    assert.deepEqual(networkWrapperFor('linux')?.prefix, ['unshare', '--user', '--map-root-user', '--net']);
+    const mac = networkWrapperFor('darwin');
+    assert.equal(mac?.network, 'profile');
+    assert.deepEqual(mac?.prefix.slice(0, 2), ['/usr/bin/sandbox-exec', '-p']);
+    const profile = mac!.prefix[2];
+    for (const rule of ['(deny network-outbound (remote ip))', '(deny network-inbound (local ip))', '(deny network-bind (local ip))']) {
+      assert.ok(profile.includes(rule), rule);
+    }
+    let depth = 0;
+    for (const char of profile) {
+      depth += char === '(' ? 1 : char === ')' ? -1 : 0;
+      assert.ok(depth >= 0, 'balanced parentheses');
+    }
+    assert.equal(depth, 0, 'balanced parentheses');
+    assert.equal(networkWrapperFor('win32'), null);
   });
 });

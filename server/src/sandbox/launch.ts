@@ -1,14 +1,15 @@
 // How a sandbox process is started: Node's permission model with the flags this runtime
 // knows (detected, never guessed from the version), and, where the platform allows it
-// without privileges, no network at all (a fresh user and network namespace on Linux).
+// without privileges, no network at all (a fresh user and network namespace on Linux, a
+// deny-network sandbox profile on macOS). Each OS confinement is tried once before it is used.
 import { spawnSync } from 'node:child_process';
 
-export type NetworkConfinement = 'namespace' | 'permission' | 'none';
+export type NetworkConfinement = 'namespace' | 'profile' | 'permission' | 'none';
 
 export interface SandboxLaunch {
   command: string;
   args: string[];
-  /** How the network is kept from user code: an empty network namespace, Node's permission model, or not at all. */
+  /** How the network is kept from user code: an empty network namespace, a sandbox profile, Node's permission model, or not at all. */
   network: NetworkConfinement;
 }
 
@@ -29,23 +30,49 @@ export function sandboxFlags(script: string, memoryMb: number, semiSpaceMb: numb
   ];
 }
 
-/** `unshare` options for a new user namespace (no privileges needed) with an empty network namespace. */
-const namespaceOptions = ['--user', '--map-root-user', '--net'];
-let namespaceWorks: boolean | null = null;
+/** An OS-level wrapper that keeps a command off the network, as `[command, ...options]` before the wrapped program. */
+interface NetworkWrapper {
+  network: NetworkConfinement;
+  prefix: string[];
+}
 
-/** True when this machine lets an unprivileged process enter a new user and network namespace (probed once). */
-export function networkNamespaceAvailable(): boolean {
-  if (namespaceWorks === null) {
-    namespaceWorks =
-      process.platform === 'linux' &&
-      spawnSync('unshare', [...namespaceOptions, process.execPath, '-e', '0'], { stdio: 'ignore', timeout: 5000, env: {} }).status === 0;
+/** Linux: `unshare` into a new user namespace (no privileges needed) with an empty network namespace. */
+const namespaceWrapper: NetworkWrapper = { network: 'namespace', prefix: ['unshare', '--user', '--map-root-user', '--net'] };
+
+/**
+ * macOS: `sandbox-exec` with a profile that denies IP networking in and out. The IPC channel to the
+ * host is a socket pair made before the program starts, which the profile leaves alone.
+ */
+const macProfile = '(version 1) (allow default) (deny network-outbound (remote ip)) (deny network-inbound (local ip)) (deny network-bind (local ip))';
+const profileWrapper: NetworkWrapper = { network: 'profile', prefix: ['/usr/bin/sandbox-exec', '-p', macProfile] };
+
+/** The wrapper this platform offers, before it has been tried. */
+export function networkWrapperFor(platform: NodeJS.Platform): NetworkWrapper | null {
+  if (platform === 'linux') return namespaceWrapper;
+  if (platform === 'darwin') return profileWrapper;
+  return null;
+}
+
+const wrapperWorks = new Map<NetworkWrapper, boolean>();
+
+/** The platform's wrapper when it runs Node on this machine (tried once: a kernel or policy may forbid it). */
+export function workingNetworkWrapper(): NetworkWrapper | null {
+  const wrapper = networkWrapperFor(process.platform);
+  if (wrapper === null) return null;
+  if (!wrapperWorks.has(wrapper)) {
+    const [command, ...options] = wrapper.prefix;
+    wrapperWorks.set(wrapper, spawnSync(command, [...options, process.execPath, '-e', '0'], { stdio: 'ignore', timeout: 5000, env: {} }).status === 0);
   }
-  return namespaceWorks;
+  return wrapperWorks.get(wrapper) ? wrapper : null;
 }
 
 export function sandboxLaunch(script: string, memoryMb: number, semiSpaceMb: number): SandboxLaunch {
   const node = [...sandboxFlags(script, memoryMb, semiSpaceMb), script];
-  if (networkNamespaceAvailable()) return { command: 'unshare', args: [...namespaceOptions, process.execPath, ...node], network: 'namespace' };
+  const wrapper = workingNetworkWrapper();
+  if (wrapper !== null) {
+    const [command, ...options] = wrapper.prefix;
+    return { command, args: [...options, process.execPath, ...node], network: wrapper.network };
+  }
   // From the Node release whose permission model covers the network, no --allow-net means none.
   return { command: process.execPath, args: node, network: has('--allow-net') ? 'permission' : 'none' };
 }

@@ -43,6 +43,8 @@ const memoryPollMs = 50;
  * it is ended: a file's targets are checked back to back, so any pause means its check is over.
  */
 const sameBundleWaitMs = 250;
+/** Idle time before the spare is started: a file's targets follow each other within a few milliseconds. */
+const spareDelayMs = 30;
 const stderrTailLength = 4000;
 const outOfMemoryPattern = /heap out of memory|Reached heap limit|Allocation failed/i;
 /**
@@ -90,6 +92,9 @@ export class SandboxPool {
   private readonly queue: Job[] = [];
   private nextId = 1;
   private disposed = false;
+  private spareTimer: NodeJS.Timeout | null = null;
+  /** A spare died before it was used: none is started again until the next check asks for a process. */
+  private spareFailed = false;
 
   constructor(options: SandboxPoolOptions) {
     this.sandboxScript = path.resolve(options.sandboxScript);
@@ -108,6 +113,7 @@ export class SandboxPool {
   run(bundle: Bundle, plan: CheckPlan, signal?: AbortSignal): Promise<SandboxResult> {
     if (!isRunnable(bundle)) return Promise.resolve(resultOf(errorReport(unrunnableBundleFindings(bundle))));
     if (this.disposed || signal?.aborted) return Promise.resolve(resultOf(errorReport([cancelledFinding()])));
+    this.spareFailed = false;
     return new Promise((resolve) => {
       const job: Job = { id: this.nextId++, bundle, plan, signal, settled: false, received: false, resent: false, resolve };
       if (signal) {
@@ -122,6 +128,7 @@ export class SandboxPool {
   /** Stops every process; queued and running checks resolve as cancelled. */
   dispose(): void {
     this.disposed = true;
+    if (this.spareTimer) clearTimeout(this.spareTimer);
     for (const job of this.queue.splice(0)) this.settle(job, resultOf(errorReport([cancelledFinding()])));
     for (const slot of [...this.slots]) {
       const job = this.retire(slot);
@@ -134,22 +141,44 @@ export class SandboxPool {
     return this.slots.flatMap((slot) => (slot.child.pid === undefined ? [] : [slot.child.pid]));
   }
 
+  /** Test hook: id of the spare process, once it has been started. */
+  spareProcessId(): number | undefined {
+    return this.spare()?.child.pid;
+  }
+
   private dispatch(): void {
     while (this.queue.length > 0 && !this.disposed) {
       const busy = this.slots.filter((slot) => slot.job !== null).length;
       if (busy >= this.size) break;
       const job = this.queue.shift()!;
       const idle = this.slots.filter((candidate) => candidate.job === null);
-      const slot = idle.find((candidate) => candidate.code === job.bundle.code) ?? idle.find((candidate) => candidate.code === null) ?? this.spawn();
+      const slot = idle.find((candidate) => candidate.code === job.bundle.code) ?? this.spare() ?? this.spawn();
       this.start(slot, job);
     }
     this.keepSpare();
   }
 
-  /** One process started ahead and waiting, never used, so the next file's check finds it booted. */
+  /**
+   * One process started ahead and waiting, never used, so the next file's check finds it booted.
+   * It is started once the pool has been idle for a moment: booting Node takes about 100 ms of CPU,
+   * which would otherwise be taken from the running check or the file's next target. A check that
+   * begins during that moment does not put it off again, so checks arriving back to back still
+   * find a spare booting beside them.
+   */
   private keepSpare(): void {
-    if (this.disposed || this.slots.some((slot) => slot.job === null && slot.code === null)) return;
-    setReferenced(this.spawn(), false);
+    if (this.disposed || this.spareFailed || this.spare() !== undefined) return;
+    if (this.queue.length > 0 || this.slots.some((slot) => slot.job !== null)) return;
+    if (this.spareTimer) clearTimeout(this.spareTimer);
+    this.spareTimer = setTimeout(() => {
+      this.spareTimer = null;
+      if (!this.disposed && !this.spareFailed && !this.spare() !== undefined) setReferenced(this.spawn(), false);
+    }, spareDelayMs);
+    this.spareTimer.unref();
+  }
+
+  /** The process waiting for a first bundle, if one has been started. */
+  private spare(): Slot | undefined {
+    return this.slots.find((slot) => slot.job === null && slot.code === null);
   }
 
   private spawn(): Slot {
@@ -235,6 +264,8 @@ export class SandboxPool {
   }
 
   private onExit(slot: Slot, code: number | null, signal: NodeJS.Signals | null): void {
+    // A process that cannot even boot would otherwise be replaced forever.
+    if (slot === this.spare()) this.spareFailed = true;
     const job = this.retire(slot);
     if (job) this.lost(job, this.crashFinding(code, signal, slot.stderrTail));
     this.dispatch();

@@ -43,9 +43,17 @@ const prepareScript = new vm.Script(
 
 class DeadlinePassed extends Error {}
 
-function handle(request: SandboxRequest): SandboxReply {
-  const started = Date.now();
-  const deadline = started + request.timeoutMs;
+/** A bare context with our runner installed and locked, and no user code run in it yet. */
+interface FreshRealm {
+  context: vm.Context;
+  /** Compiles code for this context, with dynamic import() answered in the context's own realm. */
+  script(code: string, filename: string, lineOffset?: number): vm.Script;
+}
+
+/** Time our own setup of a realm may take; no user code runs in it. */
+const setupLimitMs = 5000;
+
+function freshRealm(): FreshRealm {
   const context = vm.createContext(Object.create(null), {
     name: 'slopecheck sandbox',
     codeGeneration: { strings: false, wasm: false },
@@ -58,7 +66,26 @@ function handle(request: SandboxRequest): SandboxReply {
   const importModuleDynamically = (() => {
     throw new ContextError('import() is not available in the sandbox: it runs only self-contained modules.');
   }) as unknown as vm.ScriptOptions['importModuleDynamically'];
-  const script = (code: string, filename: string, lineOffset = 0) => new vm.Script(code, { filename, lineOffset, importModuleDynamically });
+  runnerScript.runInContext(context, { timeout: setupLimitMs, displayErrors: false });
+  prepareScript.runInContext(context, { timeout: setupLimitMs, displayErrors: false });
+  return { context, script: (code, filename, lineOffset = 0) => new vm.Script(code, { filename, lineOffset, importModuleDynamically }) };
+}
+
+/**
+ * The realm of the next check, set up while the process waits: creating a context and evaluating
+ * the runner are a few milliseconds every check would otherwise spend after its request arrives.
+ */
+let nextRealm: FreshRealm | null = null;
+
+function takeRealm(): FreshRealm {
+  const realm = nextRealm ?? freshRealm();
+  nextRealm = null;
+  return realm;
+}
+
+function handle(request: SandboxRequest, { context, script }: FreshRealm): SandboxReply {
+  const started = Date.now();
+  const deadline = started + request.timeoutMs;
   const runUntilDeadline = (compiled: vm.Script): unknown => {
     const remaining = deadline - Date.now();
     if (remaining <= 0) throw new DeadlinePassed();
@@ -66,8 +93,6 @@ function handle(request: SandboxRequest): SandboxReply {
   };
   let report: PairReport;
   try {
-    runUntilDeadline(runnerScript);
-    runUntilDeadline(prepareScript);
     // The wrapper sits on its own line; lineOffset -1 keeps stack lines equal to bundle lines.
     const factory = `(function (${realmGlobals}) { return function (exports, module, require) {\n${request.code}\n}; })(${realmGlobals})`;
     const loadOutcome = readReport(runUntilDeadline(script(`__slopecheckRunner.loadModule(${factory});`, bundleScriptName, -1)), true);
@@ -176,7 +201,8 @@ handle({
     learningRate: { name: 'rate', value: 0.1 },
     options: defaultCheckOptions,
   },
-});
+}, freshRealm());
+nextRealm = freshRealm();
 // One module per process: requests for the bundle of the first are served; any other code ends
 // the process before it runs (the host never sends one; this holds even if it did).
 let servedCode: string | null = null;
@@ -189,5 +215,16 @@ process.on('message', (message: unknown) => {
   servedCode = message.code;
   const receipt: SandboxReceipt = { id: message.id, received: true };
   process.send?.(receipt);
-  process.send?.(handle(message));
+  let realm: FreshRealm;
+  try {
+    realm = takeRealm();
+  } catch {
+    process.send?.({ id: message.id, report: internalError('the sandbox could not set up a realm'), console: [], consoleTruncated: false } satisfies SandboxReply);
+    return;
+  }
+  process.send?.(handle(message, realm));
+  // Another target of the same module may follow: its realm is made while the host reads this reply.
+  setImmediate(() => {
+    nextRealm ??= freshRealm();
+  });
 });
