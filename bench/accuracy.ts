@@ -87,6 +87,21 @@ function whyMissed(report: PairReport, trueGradient: number[], relativeSize: num
     : `resolvable (directional: relative resolution ${resolution.toExponential(2)} < bug size)`;
 }
 
+/**
+ * Whether an inconclusive verdict on a correct gradient is forced: every component it names has
+ * an exact derivative (the problem's own gradient, derived by hand) no larger than that
+ * component's error bound at the first probe, so no difference of f could confirm it there.
+ */
+function whyUndecided(report: PairReport, trueGradient: number[]): string {
+  const named = report.findings.find((f) => f.code === 'gradient-undecided')?.components ?? [];
+  const components = report.probes[0]?.components ?? [];
+  const unforced = named.filter((i) => !(Math.abs(trueGradient[i]) <= (components.find((c) => c.index === i)?.errorBound ?? 0)));
+  if (named.length === 0) return 'unforced: no component named';
+  return unforced.length === 0
+    ? `forced: exact ${named.map((i) => `∂${i} = ${trueGradient[i].toExponential(1)}`).join(', ')} within the error bounds`
+    : `unforced: components ${unforced.join(', ')} exceed their bounds`;
+}
+
 const firstFinding = (report: PairReport) => report.findings.map((f) => `${f.code}: ${f.message}`).join(' | ').slice(0, 400);
 
 export function runAccuracy(log: (line: string) => void): AccuracyResult {
@@ -98,7 +113,7 @@ export function runAccuracy(log: (line: string) => void): AccuracyResult {
     const verdict = verdictOf(report);
     record(result.slopecheck, verdict, report.evaluations.objective + report.evaluations.gradient, null);
     if (verdict === 'fail') result.slopecheckFalseAlarms.push({ label: c.label, verdict, detail: firstFinding(report) });
-    if (verdict === 'inconclusive') result.slopecheckInconclusiveOnCorrect.push({ label: c.label, verdict, detail: firstFinding(report) });
+    if (verdict === 'inconclusive') result.slopecheckInconclusiveOnCorrect.push({ label: c.label, verdict, why: whyUndecided(report, c.problem.g(c.point)), detail: firstFinding(report) });
     const base = forwardDifferenceCheck(c.problem.f, c.problem.g, c.point);
     record(result.baseline, base.verdict, base.evaluations, null);
 

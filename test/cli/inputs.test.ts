@@ -9,7 +9,7 @@ import { runCli } from '../support/runCli';
 
 // ∇(Σ (x_i − i)²) = 2(x − i): a correct pair (common practice).
 const goodModule = `
-/** @probe [0.5, -1, 2] */
+/** @probe [0.5, -1, 3] */
 export function spread(x: number[]): number { return x.reduce((s, v, i) => s + (v - i) ** 2, 0); }
 export function spreadGrad(x: number[]): number[] { return x.map((v, i) => 2 * (v - i)); }
 `;

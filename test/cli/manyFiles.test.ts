@@ -13,7 +13,7 @@ const correctCount = 20;
 
 // ∇ Σ (x_i − c·i)² = 2(x − c·i) (common practice); each correct file gets its own c.
 const correctModule = (c: number) => `
-/** @probe [0.5, -1, 2] */
+/** @probe [0.5, -1, 3] */
 export function spread${c}(x: number[]): number { return x.reduce((s, v, i) => s + (v - ${c} * i) ** 2, 0); }
 export function spread${c}Grad(x: number[]): number[] { return x.map((v, i) => 2 * (v - ${c} * i)); }
 `;

@@ -33,13 +33,28 @@ describe('Rosenbrock at its standard start', () => {
   });
 });
 
+/**
+ * Components no finite difference of f can confirm at x0, derived by hand from the definitions
+ * in Moré, Garbow & Hillstrom 1981, §3. Brown badly scaled at (1, 1): ∂f/∂x₂ = 2(x₂ − 2·10⁻⁶) +
+ * 2(x₁x₂ − 2)x₁ = −4·10⁻⁶, while f ≈ 10¹² rounds at about 10⁻⁴. Helical valley at (−1, 0, 0):
+ * ∂f/∂x₁ = 0 exactly (r = 1 and ∂θ/∂x₁ = −x₂/(2πr²) = 0). A wrong formula for those components
+ * would show nothing there, so the check may not pass them: it names them instead.
+ */
+const undecidableAtStart: Record<string, number[]> = { 'Brown badly scaled (MGH 4)': [1], 'helical valley (MGH 7)': [0] };
+
+function assertPassOrNamedUndecided(report: PairReport, label: string, undecidable: number[] | undefined): void {
+  if (!undecidable) return assertNoMismatch(report, label);
+  assert.equal(report.status, 'inconclusive', `${label}: ${JSON.stringify(report.findings)}`);
+  assert.deepEqual(report.findings.map((f) => [f.code, f.components]), [['gradient-undecided', undecidable]], label);
+}
+
 describe('Moré–Garbow–Hillstrom functions at their standard starting points', () => {
   for (const fn of moreGarbowHillstrom) {
-    test(`${fn.name}: published f(x0), correct gradient passes (arrays and Float64Array)`, () => {
+    test(`${fn.name}: published f(x0), correct gradient passes, or names the components x0 cannot decide (arrays and Float64Array)`, () => {
       // f(x0) values from Moré, Garbow & Hillstrom 1981, §3 (see testFunctions.ts for the ones derived by hand).
       assert.ok(Math.abs(fn.f(fn.start) - fn.startValue!) <= 1e-4 * Math.abs(fn.startValue!), `${fn.name} f(x0) = ${fn.f(fn.start)}`);
-      assertNoMismatch(check(fn.f, fn.g, [fn.start]), fn.name);
-      assertNoMismatch(check(fn.f, fn.g, [fn.start], makeFloat64), `${fn.name} (Float64Array)`);
+      assertPassOrNamedUndecided(check(fn.f, fn.g, [fn.start]), fn.name, undecidableAtStart[fn.name]);
+      assertPassOrNamedUndecided(check(fn.f, fn.g, [fn.start], makeFloat64), `${fn.name} (Float64Array)`, undecidableAtStart[fn.name]);
     });
 
     test(`${fn.name}: sign flip, factor 2, swap and a 1e-6 perturbation fail with the right diagnosis`, () => {
@@ -139,7 +154,8 @@ describe('report contents', () => {
     const f = (x: ArrayLike<number>) => { let s = 0; for (let i = 0; i < x.length; i++) s += Math.cosh(x[i]) * (i + 1); return s; };
     const g = (x: ArrayLike<number>) => Array.from(x, (v, i) => Math.sinh(v) * (i + 1));
     const perComponent = (n: number) => {
-      const report = check(f, g, [Array.from({ length: n }, (_, i) => Math.sin(i))]);
+      // No coordinate at 0, where sinh's derivative term would vanish and stay undecided.
+      const report = check(f, g, [Array.from({ length: n }, (_, i) => 1.5 + Math.sin(i))]);
       assert.equal(report.status, 'pass');
       return report.evaluations.objective / n;
     };

@@ -82,7 +82,7 @@ const mixedDocument = [
 
 // ∇ Σ (x_i − i)² = 2(x − i) (common practice); the flipped sign is the planted bug.
 const signFlipped = [
-  '/** @probe [0.5, -1, 2] */',
+  '/** @probe [0.5, -1, 3] */',
   'export function spread(x: number[]): number { return x.reduce((s, v, i) => s + (v - i) ** 2, 0); }',
   'export function spreadGrad(x: number[]): number[] { return x.map((v, i) => -2 * (v - i)); }',
   '',

@@ -258,7 +258,7 @@ describe('trust', () => {
 
 describe('cancellation and typing', () => {
   const correct = (extra = '') => [
-    `/** @probe [0.5, -1, 2] */`,
+    `/** @probe [0.5, -1, 3] */`,
     `export function spread(x: number[]): number { ${extra}return x.reduce((s, v, i) => s + (v - i) ** 2, 0); }`,
     `export function spreadGrad(x: number[]): number[] { return x.map((v, i) => 2 * (v - i)); }`,
     '',

@@ -11,6 +11,8 @@ export const findingTitles: Record<FindingCode, string> = {
   'non-finite-value': 'The objective or the gradient returns NaN or Infinity at a probe.',
   'non-smooth-probe': 'One-sided differences disagree at a probe: the objective has a kink there, so no verdict is possible.',
   'noisy-objective': 'The objective is too noisy near a probe to decide whether the gradient is right.',
+  'gradient-undecided': 'Some components (or directions) of the gradient were neither confirmed nor found wrong at any probe, so the pair does not pass.',
+  'stationary-probe': 'The gradient is zero at a probe within the error bounds, so a wrong sign or factor cannot show there.',
   'objective-not-a-number': 'The objective returns something other than a number.',
   'unrepeatable-objective': 'Two calls of the objective at the same point gave different values.',
   'input-mutated': 'The objective or the gradient changes the point it was given.',

@@ -1,12 +1,13 @@
 // Entry point of the numeric engine: the whole check plan for one pair.
 import { emptyReport } from './emptyReport';
-import { formatBound } from './format';
+import { undecidedWording } from './decision';
+import { formatBound, formatList } from './format';
 import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
 import { createRandom } from './random';
 import { probesAroundStart } from './startProbes';
 import { combineSmoothness, probeSmoothness, type ProbeSmoothness } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
-import { defaultCheckOptions, type CheckOptions, type CheckPlan, type PairReport, type Vector } from './types';
+import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type UndecidedReason, type Vector } from './types';
 import { CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
 
 /** The user's functions as the engine sees them; the sandbox builds these. */
@@ -124,18 +125,22 @@ function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][],
       message: `the objective returns different values for the same point (probe ${unrepeatable[0].context.probeIndex + 1}: ${unrepeatable[0].report.value}, then ${unrepeatable[0].repeatedValue}); randomness or hidden state makes finite differences unreliable`,
     });
   }
-  const undecided = outcomes.filter((o) => o.undecided);
-  if (undecided.length > 0) {
+  const noisy = outcomes.filter((o) => o.noisy);
+  if (noisy.length > 0) {
     report.findings.push({
       code: 'noisy-objective',
       severity: 'info',
       subject: 'objective',
-      probeIndex: undecided[0].context.probeIndex,
-      message: `the objective is too noisy to check the gradient at ${undecided.length === 1 ? 'probe' : 'probes'} ${undecided.map((o) => o.context.probeIndex + 1).join(', ')} (relative noise ≈ ${formatBound(undecided[0].report.noise)}): the numerical error bounds are as large as the gradient`,
+      probeIndex: noisy[0].context.probeIndex,
+      message: `the objective is too noisy to check the gradient at ${noisy.length === 1 ? 'probe' : 'probes'} ${noisy.map((o) => o.context.probeIndex + 1).join(', ')} (relative noise ≈ ${formatBound(noisy[0].report.noise)}): the numerical error bounds are as large as the gradient`,
     });
   }
+  const stationary = outcomes.filter((o) => o.stationary);
+  if (stationary.length > 0) report.findings.push(stationaryFinding(stationary, stationary.length === outcomes.length));
+  const unconfirmed = failing ? null : unconfirmedDerivatives(outcomes);
+  if (unconfirmed) report.findings.push(unconfirmed);
   if (failing) report.status = 'fail';
-  else if (unrepeatable.length > 0 || outcomes.some((o) => o.kink) || undecided.length === outcomes.length) report.status = 'inconclusive';
+  else if (unrepeatable.length > 0 || outcomes.some((o) => o.kink) || unconfirmed || stationary.length === outcomes.length) report.status = 'inconclusive';
 
   // A wrong gradient gives wrong curvature, so smoothness and rates are only
   // estimated when no mismatch was found, and only at probes where f is smooth.
@@ -169,6 +174,57 @@ function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][],
     report.learningRate = review.verdict;
     report.findings.push(...review.findings);
   }
+}
+
+/**
+ * The pair-level rule: a pair passes only when every component (full mode) agreed at some probe,
+ * or, in directional mode, some probe decided every direction. Otherwise the finding names what
+ * stayed undecided and why (the reason seen at the first probe where it was).
+ */
+function unconfirmedDerivatives(outcomes: ProbeOutcome[]): Finding | null {
+  if (outcomes[0].report.mode === 'directional') {
+    if (outcomes.some((o) => o.complete && !o.stationary)) return null;
+    const first = outcomes.find((o) => !o.stationary);
+    if (!first) return null;
+    const reasons = [...new Set(first.directional?.directions.flatMap((d) => (d.undecided ? [d.undecided] : [])) ?? [])];
+    return undecidedFinding(`no probe decided every random direction (at probe ${first.context.probeIndex + 1}: ${reasons.map((r) => undecidedWording[r]).join('; ')})`, [], first.context.probeIndex);
+  }
+  const reasonOf = new Map<number, UndecidedReason>();
+  const confirmed = new Set<number>();
+  for (const outcome of outcomes) {
+    for (const c of outcome.full?.components ?? []) {
+      if (!c.undecided && !c.mismatch) confirmed.add(c.index);
+      else if (c.undecided && !reasonOf.has(c.index)) reasonOf.set(c.index, c.undecided);
+    }
+  }
+  // Stationary probes and kinks have findings of their own.
+  const open = [...reasonOf].filter(([index, reason]) => !confirmed.has(index) && reason !== 'stationary' && reason !== 'not-smooth');
+  if (open.length === 0) return null;
+  const byReason = new Map<UndecidedReason, number[]>();
+  for (const [index, reason] of open) byReason.set(reason, [...(byReason.get(reason) ?? []), index]);
+  const parts = [...byReason].map(([reason, indices]) => `${indices.length === 1 ? 'component' : 'components'} ${formatList(indices)}: ${undecidedWording[reason]}`);
+  return undecidedFinding(`the gradient could not be confirmed at any probe for ${parts.join('; ')}`, open.map(([index]) => index).sort((a, b) => a - b), undefined);
+}
+
+function undecidedFinding(message: string, components: number[], probeIndex: number | undefined): Finding {
+  const finding: Finding = { code: 'gradient-undecided', severity: 'info', subject: 'gradient', message };
+  if (components.length > 0) finding.components = components;
+  if (probeIndex !== undefined) finding.probeIndex = probeIndex;
+  return finding;
+}
+
+function stationaryFinding(stationary: ProbeOutcome[], all: boolean): Finding {
+  const which = `${stationary.length === 1 ? 'probe' : 'probes'} ${stationary.map((o) => o.context.probeIndex + 1).join(', ')}`;
+  const consequence = all
+    ? 'no probe could decide the verdict; give a probe point away from it'
+    : 'the other probes decide the verdict';
+  return {
+    code: 'stationary-probe',
+    severity: 'info',
+    subject: 'probe',
+    probeIndex: stationary[0].context.probeIndex,
+    message: `${which} ${stationary.length === 1 ? 'is a stationary point' : 'are stationary points'}: the gradient is zero there within the error bounds, so a wrong sign or factor cannot show; ${consequence}`,
+  };
 }
 
 function readClock(clock: () => number): number {

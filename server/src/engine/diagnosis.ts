@@ -79,14 +79,13 @@ function findPermutation(mismatched: ComponentCheck[]): Array<[number, number]> 
 /**
  * Diagnosis from component checks. `complete` says every component was checked
  * (full mode); only then can a sign flip or factor of the whole gradient be claimed.
- * `decidable` lists components whose error bound allows a verdict.
+ * Components without a verdict (`undecided`) neither support nor refute a ratio.
  */
-export function diagnoseComponents(components: ComponentCheck[], decidable: number[], complete: boolean): Diagnosis | null {
+export function diagnoseComponents(components: ComponentCheck[], complete: boolean): Diagnosis | null {
   const mismatched = components.filter((c) => c.mismatch);
   if (mismatched.length === 0) return null;
   if (complete) {
-    const decidableSet = new Set(decidable);
-    const others = components.filter((c) => !c.mismatch && decidableSet.has(c.index));
+    const others = components.filter((c) => !c.mismatch && !c.undecided);
     const ratio = constantRatio(mismatched, others);
     if (ratio) return ratio;
   }
@@ -101,7 +100,7 @@ export function diagnoseDirections(directions: DirectionalCheck[]): Diagnosis | 
   // A wrong sign or factor on the whole gradient shows along every random direction; a ratio seen
   // along fewer is one wrong component seen through a direction, which localisation must find.
   if (mismatched.length < 2 || mismatched.length < directions.length) return null;
-  const others = directions.filter((d) => !d.mismatch && d.errorBound <= 0.1 * Math.max(Math.abs(d.analytic), Math.abs(d.numerical)));
+  const others = directions.filter((d) => !d.mismatch && !d.undecided);
   return constantRatio(mismatched, others);
 }
 

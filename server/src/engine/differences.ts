@@ -11,13 +11,13 @@ export interface DerivativeEstimate {
   step: number;
   /** One-sided differences disagree and do not converge: φ looks non-smooth at 0. */
   kink: boolean;
-  /** max |φ(±h) − φ(0)| / h at the first step: how fast φ changes at the resolution of the check. */
-  slopeScale: number;
   /**
    * The steps resolve φ: its second differences shrink with h as they must for a
    * smooth function (or sit at noise level). Unresolved slices never count as mismatches.
    */
   resolved: boolean;
+  /** φ equalled φ(0) exactly at every step: the slice is constant as far as the check can see. */
+  flat: boolean;
 }
 
 export interface DifferenceSettings {
@@ -71,9 +71,9 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     plus = phi(firstStep);
     minus = phi(-firstStep);
   }
-  if (!(Number.isFinite(plus) && Number.isFinite(minus))) return { value: Number.NaN, errorBound: Number.POSITIVE_INFINITY, step: firstStep, kink: false, slopeScale: 0, resolved: false };
+  if (!(Number.isFinite(plus) && Number.isFinite(minus))) return { value: Number.NaN, errorBound: Number.POSITIVE_INFINITY, step: firstStep, kink: false, resolved: false, flat: false };
+  let flat = plus === phi0 && minus === phi0;
 
-  const slopeScale = Math.max(Math.abs(plus - phi0), Math.abs(minus - phi0)) / firstStep;
   // Noise relative to f grows where |φ(±h)| ≫ |φ(0)|; rounding alone is at least 2^-52·|φ(±h)|.
   const noiseAt = (a: number, b: number) => {
     const size = Math.max(Math.abs(a), Math.abs(b));
@@ -94,6 +94,7 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     plus = phi(h);
     minus = phi(-h);
     if (!(Number.isFinite(plus) && Number.isFinite(minus))) break;
+    flat &&= plus === phi0 && minus === phi0;
     steps.push(h);
     gaps.push(Math.abs(plus + minus - 2 * phi0));
     const previousNoise = levelNoise;
@@ -119,7 +120,7 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
   const errorBound = estimateMargin * bestError + noiseMultiplier * bestNoise / bestStep;
   const resolved = isResolved(steps, gaps, noise);
   const kink = !resolved && looksKinked(phi, phi0, steps, gaps, noise);
-  return { value: best, errorBound, step: bestStep, kink, slopeScale, resolved };
+  return { value: best, errorBound, step: bestStep, kink, resolved, flat };
 }
 
 /**
@@ -133,8 +134,9 @@ export function confirmDerivative(phi: (t: number) => number, phi0: number, firs
   const gap = Math.abs(first.value - second.value);
   const kink = first.kink || second.kink;
   const resolved = first.resolved && second.resolved;
-  if (gap <= first.errorBound + second.errorBound) return second.errorBound < first.errorBound ? { ...second, kink, resolved } : { ...first, kink, resolved };
-  return { ...first, errorBound: Math.max(first.errorBound, second.errorBound) + gap, kink, resolved };
+  const flat = first.flat && second.flat;
+  if (gap <= first.errorBound + second.errorBound) return second.errorBound < first.errorBound ? { ...second, kink, resolved, flat } : { ...first, kink, resolved, flat };
+  return { ...first, errorBound: Math.max(first.errorBound, second.errorBound) + gap, kink, resolved, flat };
 }
 
 // Second differences above this many noise levels are signal, not noise.

@@ -2,16 +2,14 @@
 // difference along seeded random directions (wrong components are then located
 // by localise.ts).
 import type { DerivativeEstimate } from './differences';
-import { checkDirection, initialRelativeStep, type Judgement, type ProbeContext } from './probeContext';
+import { directionalSize, type Judgement } from './decision';
+import { checkDirection, initialRelativeStep, type ProbeContext } from './probeContext';
 import type { Random } from './random';
 import type { DirectionalCheck } from './types';
 
 export interface DirectionalResult {
   directions: DirectionalCheck[];
   kinks: number;
-  decidable: number;
-  /** Largest rate of change of f seen at the first difference step. */
-  slopeScale: number;
   /** Step of the best estimate along the first direction, and that direction, for the step study. */
   firstDirection: { direction: Float64Array; step: number; numerical: number } | null;
 }
@@ -49,20 +47,21 @@ function testDirection(context: ProbeContext, direction: Float64Array, from: num
   }
   // Rounding of the dot product itself grows with the number of terms.
   const unit = context.gradientUnit * Math.max(1, Math.sqrt(to - from));
-  const { numerical, verdict } = checkDirection(context, direction, initialRelativeStep(context), analytic, roundoffScale, unit, options);
+  const size = directionalSize(context.gradient, context.x, from, to);
+  const { numerical, verdict } = checkDirection(context, direction, initialRelativeStep(context), analytic, { roundoffScale, unit, size }, options);
   return { analytic, numerical, verdict };
 }
 
 export function checkRandomDirections(context: ProbeContext, random: Random, count: number): DirectionalResult {
   const n = context.x.length;
-  const result: DirectionalResult = { directions: [], kinks: 0, decidable: 0, slopeScale: 0, firstDirection: null };
+  const result: DirectionalResult = { directions: [], kinks: 0, firstDirection: null };
   for (let k = 0; k < count; k++) {
     const direction = rangeDirection(context, random, 0, n);
     const test = testDirection(context, direction, 0, n);
-    result.directions.push({ analytic: test.analytic, numerical: test.numerical.value, errorBound: test.verdict.errorBound, mismatch: test.verdict.mismatch });
+    const check: DirectionalCheck = { analytic: test.analytic, numerical: test.numerical.value, errorBound: test.verdict.errorBound, mismatch: test.verdict.mismatch };
+    if (test.verdict.undecided) check.undecided = test.verdict.undecided;
+    result.directions.push(check);
     if (test.numerical.kink) result.kinks++;
-    result.slopeScale = Math.max(result.slopeScale, test.numerical.slopeScale);
-    if (test.verdict.decidable) result.decidable++;
     if (k === 0) result.firstDirection = { direction, step: test.numerical.step, numerical: test.numerical.value };
   }
   return result;

@@ -12,6 +12,7 @@
 // decode (two or more wrong components, or bounds too wide) is split into random
 // sub-pools measured on their own: adaptive group testing, with a decode at every
 // node, so a few wrong components cost a few splits.
+import { componentCheckOf, isUsable } from './decision';
 import { checkDirection, initialRelativeStep, roundoffFloor, type ProbeContext } from './probeContext';
 import type { Random } from './random';
 import type { ComponentCheck } from './types';
@@ -149,8 +150,8 @@ function measurePool(search: Search, pool: number[], weight: (rank: number) => n
   }
   // Rounding of the dot product itself grows with the number of terms.
   const unit = context.gradientUnit * Math.sqrt(Math.max(1, pool.length));
-  const { numerical } = checkDirection(context, direction, initialRelativeStep(context), analytic, roundoffScale, unit, { confirm: false });
-  const usable = numerical.resolved && !numerical.kink && Number.isFinite(numerical.value) && Number.isFinite(numerical.errorBound);
+  const { numerical, verdict } = checkDirection(context, direction, initialRelativeStep(context), analytic, { roundoffScale, unit, size: 0 }, { confirm: false });
+  const usable = isUsable(verdict);
   const size = Math.max(Math.abs(analytic), Math.abs(numerical.value));
   return { direction, discrepancy: analytic - numerical.value, bound: usable ? numerical.errorBound + roundoffFloor(roundoffScale, size, unit) : Number.POSITIVE_INFINITY };
 }
@@ -187,9 +188,9 @@ function checkComponent(search: Search, index: number): void {
   direction[index] = 1;
   const analytic = context.gradient[index];
   const step = initialRelativeStep(context) * Math.max(Math.abs(context.x[index]), 1);
-  const { numerical, verdict } = checkDirection(context, direction, step, analytic, Math.abs(analytic), context.gradientUnit);
-  search.checked.set(index, { index, analytic, numerical: numerical.value, errorBound: verdict.errorBound, relError: verdict.relError, mismatch: verdict.mismatch });
-  if (Number.isFinite(numerical.value) && Number.isFinite(verdict.errorBound) && numerical.resolved && !numerical.kink) {
+  const { numerical, verdict } = checkDirection(context, direction, step, analytic, { roundoffScale: Math.abs(analytic), unit: context.gradientUnit, size: 0 });
+  search.checked.set(index, componentCheckOf(index, analytic, numerical.value, verdict));
+  if (isUsable(verdict)) {
     const size = Math.max(Math.abs(analytic), Math.abs(numerical.value));
     search.errors.set(index, { value: analytic - numerical.value, bound: verdict.errorBound + roundoffFloor(Math.abs(analytic), size, context.gradientUnit) });
   }

@@ -9,7 +9,8 @@ import { localiseWrongComponents } from './localise';
 import { estimateNoise } from './noise';
 import { gradientUnitOf, type ProbeContext } from './probeContext';
 import type { Random } from './random';
-import type { CheckOptions, ComponentCheck, Diagnosis, Finding, ProbeReport, StepStudy } from './types';
+import { isDecided } from './decision';
+import type { CheckOptions, ComponentCheck, Diagnosis, DirectionalCheck, Finding, ProbeReport, StepStudy } from './types';
 import { CheckStopped, makeFinding, type CallSite, type UserCalls } from './userCalls';
 import { offset, offsetComponent } from './vectors';
 
@@ -19,8 +20,12 @@ export interface ProbeOutcome {
   diagnosis: Diagnosis | null;
   mismatch: boolean;
   kink: boolean;
-  /** Nothing at this probe could be decided: every error bound was too wide. */
-  undecided: boolean;
+  /** The gradient is zero within the error bounds here: a wrong sign or factor cannot show. */
+  stationary: boolean;
+  /** Not stationary, yet nothing at this probe could be decided: every error bound was too wide. */
+  noisy: boolean;
+  /** Every component (full mode) or direction (directional mode) got a verdict here. */
+  complete: boolean;
   /** f(x) differed between two calls at the same point. */
   unrepeatable: boolean;
   /** f(x) of the second call. */
@@ -30,6 +35,12 @@ export interface ProbeOutcome {
   directional: DirectionalResult | null;
 }
 
+/**
+ * Relative noise of f above which wide bounds are blamed on the noise rather than on a zero
+ * gradient: far above double rounding (~1e-16), where a simulation, a float32 computation or a
+ * solver tolerance puts it (common practice).
+ */
+const noticeableNoise = 1e-6;
 /** Shown coordinates of a probe in the report. */
 const shownCoordinates = 64;
 // Difference estimates (pooled and coordinate) allowed for locating wrong components at one probe.
@@ -71,7 +82,9 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
     diagnosis: null,
     mismatch: false,
     kink: false,
-    undecided: false,
+    stationary: false,
+    noisy: false,
+    complete: false,
     unrepeatable,
     repeatedValue: repeated,
     findings: [],
@@ -94,17 +107,15 @@ function runFull(outcome: ProbeOutcome): void {
   const full = checkEveryComponent(outcome.context);
   outcome.full = full;
   const { report } = outcome;
-  report.components = full.components.map(sanitiseComponent);
-  const decidable = new Set(full.decidable);
-  report.maxRelError = Math.max(0, ...full.components.filter((c) => decidable.has(c.index)).map((c) => c.relError));
   const mismatched = full.components.filter((c) => c.mismatch);
   outcome.mismatch = mismatched.length > 0;
   outcome.kink = full.kinks.length > 0;
-  const size = Math.max(gradientScale(outcome.context), full.slopeScale, ...full.components.map((c) => Math.abs(c.numerical || 0)));
-  outcome.undecided = !outcome.mismatch && !outcome.kink && full.components.every((c) => !(c.errorBound <= 0.1 * size));
+  classifyProbe(outcome, full.components);
+  report.components = full.components.map(sanitiseComponent);
+  report.maxRelError = Math.max(0, ...full.components.filter((c) => !c.undecided).map((c) => c.relError));
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
   if (!outcome.mismatch) return;
-  outcome.diagnosis = diagnoseComponents(full.components, full.decidable, true);
+  outcome.diagnosis = diagnoseComponents(full.components, true);
   const shape = outcome.diagnosis ? `${describeDiagnosis(outcome.diagnosis)}. ` : '';
   const finding = makeFinding('gradient-mismatch', 'gradient', `gradient disagrees with central differences at probe ${outcome.context.probeIndex + 1}: ${shape}${describeComponents(mismatched)}`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
   finding.components = mismatched.map((c) => c.index);
@@ -115,15 +126,14 @@ function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Ra
   const { context, report } = outcome;
   const directional = checkRandomDirections(context, random, options.directionCount);
   outcome.directional = directional;
-  report.directions = directional.directions.map((d) => ({ ...d, numerical: finiteOr(d.numerical, 0), errorBound: finiteOr(d.errorBound, Number.MAX_VALUE) }));
   const size = (d: { analytic: number; numerical: number }) => Math.max(Math.abs(d.analytic), Math.abs(d.numerical));
-  const informative = directional.directions.filter((d) => d.mismatch || d.errorBound <= 0.1 * size(d));
-  report.maxRelError = Math.max(0, ...informative.map((d) => Math.abs(d.analytic - d.numerical) / (size(d) || 1)));
   const mismatched = directional.directions.filter((d) => d.mismatch);
   outcome.mismatch = mismatched.length > 0;
   outcome.kink = directional.kinks > 0;
-  const scale = Math.max(gradientScale(context), directional.slopeScale, ...directional.directions.map((d) => size(d) || 0));
-  outcome.undecided = !outcome.mismatch && !outcome.kink && directional.directions.every((d) => !(d.errorBound <= 0.1 * scale));
+  classifyProbe(outcome, directional.directions);
+  report.directions = directional.directions.map((d) => ({ ...d, numerical: finiteOr(d.numerical, 0), errorBound: finiteOr(d.errorBound, Number.MAX_VALUE) }));
+  const informative = directional.directions.filter((d) => !d.undecided);
+  report.maxRelError = Math.max(0, ...informative.map((d) => Math.abs(d.analytic - d.numerical) / (size(d) || 1)));
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, []));
   if (!outcome.mismatch) return;
   const example = mismatched[0];
@@ -139,7 +149,7 @@ function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Ra
     const found = localiseWrongComponents(context, random, localisationBudget);
     report.components = found.components.map(sanitiseComponent);
     components = found.components.map((c) => c.index);
-    outcome.diagnosis = diagnoseComponents(found.components, [], false) ?? { kind: 'unknown' };
+    outcome.diagnosis = diagnoseComponents(found.components, false) ?? { kind: 'unknown' };
     text += `: ${describeDiagnosis(outcome.diagnosis)}`;
     if (found.components.length > 0) text += `. ${describeComponents(found.components)}`;
     text += ` (located by ${found.pooledDifferences} pooled directional and ${found.coordinateDifferences} coordinate differences${found.incomplete ? '; the search stopped before every discrepancy was explained, so more components may be wrong' : ''})`;
@@ -150,18 +160,19 @@ function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Ra
 }
 
 /**
- * What counts as a large derivative at this probe: the gradient itself, or
- * |f|/max(|x_i|, 1); callers add how fast f changes over the first difference
- * step, so that a tight bound on a zero gradient at a minimum still decides.
+ * Whether the probe decided everything, is stationary (every derivative, analytic and numerical,
+ * within its error bound of zero: there a factor or a sign cannot show, and the components are
+ * marked so), or is noisy (nothing decided for wide bounds though the gradient is not zero).
  */
-function gradientScale(context: ProbeContext): number {
-  let largestScale = 1;
-  let largestGradient = 0;
-  for (let i = 0; i < context.x.length; i++) {
-    largestScale = Math.max(largestScale, Math.abs(context.x[i]));
-    largestGradient = Math.max(largestGradient, Math.abs(context.gradient[i]));
-  }
-  return Math.max(largestGradient, Math.abs(context.value) / largestScale);
+function classifyProbe(outcome: ProbeOutcome, checks: Array<ComponentCheck | DirectionalCheck>): void {
+  outcome.complete = checks.every((c) => isDecided(c));
+  if (outcome.mismatch || outcome.kink || checks.length === 0) return;
+  const undecidedAll = checks.every((c) => c.undecided === 'bound-too-wide');
+  if (!undecidedAll) return;
+  const zeroWithinBounds = checks.every((c) => Math.abs(c.analytic) <= c.errorBound && Math.abs(c.numerical) <= c.errorBound);
+  outcome.stationary = zeroWithinBounds && outcome.report.noise <= noticeableNoise;
+  if (outcome.stationary) for (const c of checks) c.undecided = 'stationary';
+  else outcome.noisy = true;
 }
 
 function describeComponents(components: ComponentCheck[], limit = 4): string {

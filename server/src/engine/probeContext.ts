@@ -1,6 +1,7 @@
 // What every check at one probe needs: the point, f and ∇f there, the noise
 // level, and the rules that turn a numerical derivative into a verdict.
 import { confirmDerivative, defaultDifferenceSettings, differentiate, type DerivativeEstimate, type DifferenceSettings } from './differences';
+import { isDecided, judge, type Judgement } from './decision';
 import type { CallSite, UserCalls } from './userCalls';
 import { offset } from './vectors';
 
@@ -14,14 +15,6 @@ export interface ProbeContext {
   noise: number;
   /** Unit roundoff the gradient seems to be computed in (float32 or float64). */
   gradientUnit: number;
-}
-
-export interface Judgement {
-  errorBound: number;
-  relError: number;
-  mismatch: boolean;
-  /** The error bound is small enough to say something about this derivative. */
-  decidable: boolean;
 }
 
 const float32Unit = 2 ** -23;
@@ -40,22 +33,6 @@ export function gradientUnitOf(gradient: Float64Array): number {
   return needsBits ? float32Unit : float64Unit;
 }
 
-/**
- * A derivative is wrong only when analytic and numerical differ by more than the
- * numerical error bound plus the roundoff of the analytic value. `roundoffScale`
- * is the size of the terms summed into the analytic value (|g_i|, or Σ|g_i v_i|).
- */
-export function judge(analytic: number, numerical: DerivativeEstimate, roundoffScale: number, unit: number): Judgement {
-  const difference = Math.abs(analytic - numerical.value);
-  const size = Math.max(Math.abs(analytic), Math.abs(numerical.value));
-  const relError = size > 0 ? difference / size : 0;
-  const floor = roundoffFloor(roundoffScale, size, unit);
-  const usable = numerical.resolved && Number.isFinite(numerical.value) && Number.isFinite(numerical.errorBound);
-  const mismatch = usable && !numerical.kink && difference > numerical.errorBound + floor;
-  const decidable = mismatch || (usable && !numerical.kink && numerical.errorBound <= 0.1 * size);
-  return { errorBound: numerical.errorBound, relError, mismatch, decidable };
-}
-
 /** Rounding the analytic value may carry: a few units of roundoff of its largest term sum. */
 export function roundoffFloor(roundoffScale: number, size: number, unit: number): number {
   return roundoffUlps * unit * Math.max(roundoffScale, size);
@@ -67,24 +44,56 @@ export function initialRelativeStep(context: ProbeContext): number {
   return Math.min(0.05, Math.max(1e-3, 4 * Math.pow(relativeNoise, 0.2)));
 }
 
+/** What a derivative is judged against: the rounding its analytic value may carry, and its size (decision.ts). */
+export interface AnalyticScales {
+  /** Size of the terms summed into the analytic value (|g_i|, or Σ|g_i v_i|). */
+  roundoffScale: number;
+  /** Unit roundoff the analytic value was computed in. */
+  unit: number;
+  /** What the error bound is compared with besides the derivative's own size; 0 for none. */
+  size: number;
+}
+
 /**
  * φ'(0) for φ(t) = f(x + t·v), judged against `analytic`; a mismatch is only
  * kept when an independent step sequence confirms it (`confirm`).
  */
-export function checkDirection(context: ProbeContext, direction: Float64Array, step: number, analytic: number, roundoffScale: number, unit: number, options: { minLevels?: number; confirm?: boolean } = {}): { numerical: DerivativeEstimate; verdict: Judgement } {
+export function checkDirection(context: ProbeContext, direction: Float64Array, step: number, analytic: number, scales: AnalyticScales, options: { minLevels?: number; confirm?: boolean } = {}): { numerical: DerivativeEstimate; verdict: Judgement } {
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a finite-difference point' };
   const phi = (t: number) => context.calls.objective(offset(context.x, t, direction), site);
-  return checkSlice(phi, context.value, step, analytic, roundoffScale, unit, { ...defaultDifferenceSettings, minLevels: options.minLevels ?? defaultDifferenceSettings.minLevels, noise: context.noise }, options.confirm ?? true);
+  return checkSlice(phi, context.value, step, analytic, scales, { ...defaultDifferenceSettings, minLevels: options.minLevels ?? defaultDifferenceSettings.minLevels, noise: context.noise }, options.confirm ?? true);
 }
 
-export function checkSlice(phi: (t: number) => number, phi0: number, step: number, analytic: number, roundoffScale: number, unit: number, settings: DifferenceSettings, confirm = true): { numerical: DerivativeEstimate; verdict: Judgement } {
-  // No retry at much smaller steps: below the scale where noise was measured, a
-  // rough objective (simulation noise) would show derivatives of its roughness.
+/**
+ * An undecided estimate is tried again from this much smaller a first step: a pole or a feature
+ * inside the first step (1/x at x = 10⁻⁴ with a step of 10⁻³) is then left outside it. Two
+ * retries bring the first step to 1/256 of the first try. A retry is kept only when it decides;
+ * where noise made the bound wide, smaller steps only widen it.
+ */
+const retryShrink = 16;
+const undecidedRetries = 2;
+
+/** Undecided for a reason a smaller step may remove (not a kink, which smaller steps only confirm). */
+function retryable(verdict: Judgement): boolean {
+  return verdict.undecided === 'bound-too-wide' || verdict.undecided === 'singular-within-step';
+}
+
+export function checkSlice(phi: (t: number) => number, phi0: number, step: number, analytic: number, scales: AnalyticScales, settings: DifferenceSettings, confirm = true): { numerical: DerivativeEstimate; verdict: Judgement } {
+  const judged = (estimate: DerivativeEstimate) =>
+    judge(analytic, estimate, roundoffFloor(scales.roundoffScale, Math.max(Math.abs(analytic), Math.abs(estimate.value)), scales.unit), scales.size);
   let numerical = differentiate(phi, phi0, step, settings);
-  let verdict = judge(analytic, numerical, roundoffScale, unit);
+  let verdict = judged(numerical);
+  for (let retry = 0, smaller = step; retry < undecidedRetries && retryable(verdict); retry++) {
+    smaller /= retryShrink;
+    const again = differentiate(phi, phi0, smaller, settings);
+    const againVerdict = judged(again);
+    if (isDecided(againVerdict) || (verdict.undecided === 'singular-within-step' && againVerdict.undecided !== 'singular-within-step')) {
+      [numerical, verdict, step] = [again, againVerdict, smaller];
+    }
+  }
   if (verdict.mismatch && confirm) {
     numerical = confirmDerivative(phi, phi0, numerical, step, settings);
-    verdict = judge(analytic, numerical, roundoffScale, unit);
+    verdict = judged(numerical);
   }
   return { numerical, verdict };
 }

@@ -106,6 +106,8 @@ export type FindingCode =
   | 'non-finite-value'
   | 'non-smooth-probe'
   | 'noisy-objective'
+  | 'gradient-undecided'
+  | 'stationary-probe'
   | 'objective-not-a-number'
   | 'unrepeatable-objective'
   | 'input-mutated'
@@ -148,6 +150,13 @@ export interface Finding {
   location?: { file: string; line: number; column: number };
 }
 
+/**
+ * Why a derivative got no verdict: its error bound is as large as it is, the differences do not
+ * settle as the step shrinks (a pole or singularity within the step), the objective has a kink
+ * there, or the whole probe is a stationary point.
+ */
+export type UndecidedReason = 'bound-too-wide' | 'singular-within-step' | 'not-smooth' | 'stationary';
+
 /** One component of the full (coordinate-wise) check. */
 export interface ComponentCheck {
   index: number;
@@ -158,6 +167,8 @@ export interface ComponentCheck {
   /** |analytic − numerical| / max(|analytic|, |numerical|, tiny). */
   relError: number;
   mismatch: boolean;
+  /** Set when this component was neither confirmed nor found wrong, with the reason. */
+  undecided?: UndecidedReason;
 }
 
 /** One random direction of the large-dimension check. */
@@ -166,6 +177,7 @@ export interface DirectionalCheck {
   numerical: number;
   errorBound: number;
   mismatch: boolean;
+  undecided?: UndecidedReason;
 }
 
 /** Numerical-derivative error against step size, for the log–log plot. */

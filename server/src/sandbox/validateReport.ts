@@ -21,6 +21,7 @@ import type {
   Severity,
   SmoothnessEstimate,
   StepStudy,
+  UndecidedReason,
 } from '../engine/types';
 import {
   boolean,
@@ -110,8 +111,9 @@ const mismatchRank = (c: unknown) => (isRecord(c) && ownValue(c, 'mismatch') ===
 
 /** What a component check and a direction check share. */
 const compared = { analytic: measurement, numerical: measurement, errorBound: measurement, mismatch: boolean };
-const directionalCheck = objectOf<DirectionalCheck>(compared, {});
-const componentCheck = objectOf<ComponentCheck>({ index: count, ...compared, relError: measurement }, {});
+const undecided = { undecided: oneOf(wordsOf<UndecidedReason>({ 'bound-too-wide': true, 'singular-within-step': true, 'not-smooth': true, stationary: true })) };
+const directionalCheck = objectOf<DirectionalCheck>(compared, undecided);
+const componentCheck = objectOf<ComponentCheck>({ index: count, ...compared, relError: measurement }, undecided);
 
 const stepStudy = objectOf<StepStudy>(
   {

@@ -1,0 +1,138 @@
+// Cases built to make a gradient check pass a wrong gradient: a pole inside the first
+// difference step, a component far below the objective's rounding, a probe at a stationary
+// point, exact zeros. No wrong gradient may pass; a correct one passes wherever every
+// component can be decided, and is otherwise inconclusive, naming what stayed open and why.
+import assert from 'node:assert/strict';
+import { describe, test } from 'node:test';
+import { checkPair, type PairFunctions } from '../../server/src/engine/checkPair';
+import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
+import { brownBadlyScaled, makeArray } from '../support/problems';
+
+type Gradient = (x: ArrayLike<number>) => number[];
+
+function run(objective: PairFunctions['objective'], gradient: Gradient, probes: number[][]): PairReport {
+  return checkPair({ objective, gradient, makeVector: makeArray }, probes, { dimension: null, learningRate: null, options: defaultCheckOptions });
+}
+
+/** The same gradient with component `i` changed by `change`. */
+const altered = (g: Gradient, i: number, change: (v: number) => number): Gradient => (x) => {
+  const out = g(x);
+  out[i] = change(out[i]);
+  return out;
+};
+
+const findingOf = (report: PairReport, code: string) => report.findings.find((f) => f.code === code);
+
+describe('a pole inside the first difference step', () => {
+  // f = 1/x₀ + 1/x₁, ∇f = (−1/x₀², −1/x₁²) (elementary calculus, common practice). At
+  // (1e-4, 3e-4) a step relative to max(|xᵢ|, 1) reaches across the pole at 0.
+  const f = (x: ArrayLike<number>) => 1 / x[0] + 1 / x[1];
+  const g: Gradient = (x) => [-1 / x[0] ** 2, -1 / x[1] ** 2];
+  const probe = [[1e-4, 3e-4]];
+
+  test('the correct gradient passes, from steps that stay on one side of the pole', () => {
+    const report = run(f, g, probe);
+    assert.equal(report.status, 'pass', JSON.stringify(report.findings));
+    const [c0] = report.probes[0].components;
+    assert.ok(Math.abs(c0.numerical - -1e8) <= c0.errorBound, `∂f/∂x₀ = ${c0.numerical} ± ${c0.errorBound}`);
+  });
+
+  test('a sign flip or a factor of 2 in the component next to the pole fails there', () => {
+    for (const wrong of [altered(g, 0, (v) => -v), altered(g, 0, (v) => 2 * v)]) {
+      const report = run(f, wrong, probe);
+      assert.equal(report.status, 'fail', JSON.stringify(report.findings));
+      assert.deepEqual(findingOf(report, 'gradient-mismatch')?.components, [0]);
+    }
+  });
+});
+
+describe('a component far below the objective rounding', () => {
+  // Brown badly scaled (Moré, Garbow & Hillstrom 1981, problem 4) at (1, 1): ∂f/∂x₂ = −4·10⁻⁶
+  // (derived by hand from the definition) beside f ≈ 10¹², which rounds at about 10⁻⁴.
+  const start = [brownBadlyScaled.start];
+
+  test('a sign flip or a factor of 10 in that component is never passed: the pair is inconclusive, naming it', () => {
+    for (const wrong of [altered(brownBadlyScaled.g, 1, (v) => -v), altered(brownBadlyScaled.g, 1, (v) => 10 * v)]) {
+      const report = run(brownBadlyScaled.f, wrong, start);
+      assert.equal(report.status, 'inconclusive', JSON.stringify(report.findings));
+      const open = findingOf(report, 'gradient-undecided')!;
+      assert.deepEqual(open.components, [1]);
+      assert.match(open.message, /component 1: the error bound is as large as the derivative/);
+    }
+  });
+
+  test('a wrong large component still fails beside it', () => {
+    const report = run(brownBadlyScaled.f, altered(brownBadlyScaled.g, 0, (v) => -v), start);
+    assert.equal(report.status, 'fail');
+    assert.deepEqual(findingOf(report, 'gradient-mismatch')?.components, [0]);
+  });
+
+  test('a small component that rounding does resolve is decided: 10⁻⁸·x₀² + x₁²', () => {
+    const f = (x: ArrayLike<number>) => 1e-8 * x[0] ** 2 + x[1] ** 2;
+    const g: Gradient = (x) => [2e-8 * x[0], 2 * x[1]];
+    assert.equal(run(f, g, [[0.7, 1.3]]).status, 'pass');
+    const flipped = run(f, altered(g, 0, (v) => -v), [[0.7, 1.3]]);
+    assert.equal(flipped.status, 'fail');
+    assert.deepEqual(findingOf(flipped, 'gradient-mismatch')?.components, [0]);
+  });
+});
+
+describe('stationary probes and exact zeros', () => {
+  // f = Σ (xᵢ − 1)², minimum at (1, 1, 1), where ∇f = 0 and 2∇f = 0 too (common practice).
+  const f = (x: ArrayLike<number>) => (x[0] - 1) ** 2 + (x[1] - 1) ** 2 + (x[2] - 1) ** 2;
+  const g: Gradient = (x) => Array.from(x, (v) => 2 * (v - 1));
+  const doubled: Gradient = (x) => g(x).map((v) => 2 * v);
+
+  test('at the minimum alone, neither the correct nor a doubled gradient passes: the probe is reported stationary', () => {
+    for (const gradient of [g, doubled]) {
+      const report = run(f, gradient, [[1, 1, 1]]);
+      assert.equal(report.status, 'inconclusive', JSON.stringify(report.findings));
+      assert.match(findingOf(report, 'stationary-probe')!.message, /probe 1 is a stationary point.*no probe could decide/);
+      assert.ok(report.probes[0].components.every((c) => c.undecided === 'stationary'));
+    }
+  });
+
+  test('another probe decides: the doubled gradient fails there, the correct one passes with the stationary probe noted', () => {
+    const probes = [[1, 1, 1], [2, 0, 1.5]];
+    const wrong = run(f, doubled, probes);
+    assert.equal(wrong.status, 'fail');
+    assert.equal(findingOf(wrong, 'gradient-mismatch')?.probeIndex, 1);
+    const right = run(f, g, probes);
+    assert.equal(right.status, 'pass', JSON.stringify(right.findings));
+    assert.match(findingOf(right, 'stationary-probe')!.message, /the other probes decide/);
+  });
+
+  test('a component that is zero at one probe is confirmed at another; zero at every probe, it is named', () => {
+    // ∂f/∂x₂ = 0 wherever x₂ = 1.
+    const right = run(f, g, [[2, 0, 1], [0.5, 3, 2]]);
+    assert.equal(right.status, 'pass', JSON.stringify(right.findings));
+    const open = run(f, g, [[2, 0, 1], [0.5, 3, 1]]);
+    assert.equal(open.status, 'inconclusive');
+    assert.deepEqual(findingOf(open, 'gradient-undecided')?.components, [2]);
+    // A wrong formula for x₂ that is also zero at x₂ = 1 (4(x₂ − 1) instead of 2(x₂ − 1)) is exactly what that cannot rule out.
+    assert.equal(run(f, altered(g, 2, (v) => 2 * v), [[2, 0, 1], [0.5, 3, 1]]).status, 'inconclusive');
+  });
+
+  test('a parameter the objective ignores, with a zero gradient component, agrees exactly', () => {
+    const ignoring = (x: ArrayLike<number>) => (x[0] - 1) ** 2 + (x[1] - 1) ** 2;
+    const report = run(ignoring, (x) => [2 * (x[0] - 1), 2 * (x[1] - 1), 0], [[2, 0, 5]]);
+    assert.equal(report.status, 'pass', JSON.stringify(report.findings));
+  });
+});
+
+describe('large dimension (directional check)', () => {
+  // f = Σ cᵢ xᵢ² with every third coefficient 0: the gradient has exact zeros, which random
+  // directions decide together with the rest.
+  const n = 120;
+  const coefficient = (i: number) => (i % 3 === 0 ? 0 : 1 + (i % 7));
+  const f = (x: ArrayLike<number>) => { let s = 0; for (let i = 0; i < n; i++) s += coefficient(i) * x[i] ** 2; return s; };
+  const g: Gradient = (x) => Array.from({ length: n }, (_, i) => 2 * coefficient(i) * x[i]);
+  const probe = [Array.from({ length: n }, (_, i) => 0.5 + Math.cos(i))];
+
+  test('passes with zero components, and a doubled gradient fails', () => {
+    const right = run(f, g, probe);
+    assert.equal(right.probes[0].mode, 'directional');
+    assert.equal(right.status, 'pass', JSON.stringify(right.findings));
+    assert.equal(run(f, (x) => g(x).map((v) => 2 * v), probe).status, 'fail');
+  });
+});
