@@ -2,8 +2,8 @@ import assert from 'node:assert/strict';
 import { test } from 'node:test';
 import { parseArguments, UsageError } from '../../server/src/cli/args';
 
-test('defaults: text format, seed 1, 5000 ms', () => {
-  assert.deepEqual(parseArguments(['a.ts']), { format: 'text', seed: 1, timeoutMs: 5000, paths: ['a.ts'] });
+test('defaults: text format, seed 1, 10000 ms', () => {
+  assert.deepEqual(parseArguments(['a.ts']), { format: 'text', seed: 1, timeoutMs: 10000, paths: ['a.ts'] });
 });
 
 test('flags with separate and inline values', () => {

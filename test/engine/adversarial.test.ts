@@ -136,3 +136,66 @@ describe('large dimension (directional check)', () => {
     assert.equal(run(f, (x) => g(x).map((v) => 2 * v), probe).status, 'fail');
   });
 });
+
+describe('a time budget', () => {
+  // A clock that advances 50 ms per call of either function: an objective of 50 ms per call,
+  // measured without waiting. f = Σ (i + 1)·cosh(0.3·xᵢ), ∇f = 0.3(i + 1)·sinh(0.3·xᵢ) (elementary calculus).
+  function slowPair(n: number, wrongComponent: number | null) {
+    const clock = { now: 0 };
+    const f = (x: ArrayLike<number>) => {
+      clock.now += 50;
+      let s = 0;
+      for (let i = 0; i < n; i++) s += (i + 1) * Math.cosh(0.3 * x[i]);
+      return s;
+    };
+    const g = (x: ArrayLike<number>) => {
+      clock.now += 50;
+      return Array.from({ length: n }, (_, i) => (i === wrongComponent ? -1 : 1) * 0.3 * (i + 1) * Math.sinh(0.3 * x[i]));
+    };
+    return { clock, fns: { objective: f, gradient: g, makeVector: makeArray } };
+  }
+  const check = (n: number, wrong: number | null, budgetMs: number) => {
+    const { clock, fns } = slowPair(n, wrong);
+    const report = checkPair(fns, [], { dimension: n, learningRate: null, options: defaultCheckOptions, endsAt: budgetMs }, () => clock.now);
+    return { report, spentMs: clock.now };
+  };
+  const budgetMessages = (report: PairReport) => report.findings.filter((f) => f.code === 'budget-spent').map((f) => f.message);
+
+  test('at n = 20 and 50 ms per call, the default budget gives the verdict at probe 1, and says the rest was left out', () => {
+    const { report, spentMs } = check(20, null, 10_000);
+    assert.equal(report.status, 'pass', JSON.stringify(report.findings));
+    assert.ok(spentMs <= 10_000, `ended at ${spentMs} ms`);
+    assert.ok(budgetMessages(report).some((m) => /after probe 1 of 3; the verdict rests on it/.test(m)), JSON.stringify(budgetMessages(report)));
+  });
+
+  test('a wrong component fails within the budget, after the first probe', () => {
+    const { report } = check(20, 1, 10_000);
+    assert.equal(report.status, 'fail');
+    assert.deepEqual(report.findings.find((f) => f.code === 'gradient-mismatch')?.components, [1]);
+    assert.equal(report.probes.length, 1, 'no probe is checked after a mismatch');
+  });
+
+  test('a mismatch among the components checked before the budget ran out still fails; unchecked ones keep a correct pair from passing', () => {
+    const wrong = check(20, 1, 5_000);
+    assert.equal(wrong.report.status, 'fail');
+    const right = check(20, null, 5_000);
+    assert.equal(right.report.status, 'inconclusive');
+    const open = right.report.findings.find((f) => f.code === 'gradient-undecided')!;
+    assert.match(open.message, /the time budget ran out before it was checked/);
+    assert.ok(open.components!.includes(19));
+    assert.ok(right.spentMs <= 5_000);
+  });
+
+  test('without time for one probe the check says so, with the calls made and their cost', () => {
+    const { report } = check(100, null, 2_000);
+    assert.equal(report.status, 'inconclusive');
+    assert.match(budgetMessages(report)[0], /before probe 1 was decided; no verdict \(\d+ calls .* about 5e1 ms each\)/);
+  });
+
+  test('with time to spare nothing is cut short', () => {
+    const { report } = check(3, null, 1e9);
+    assert.equal(report.status, 'pass');
+    assert.deepEqual(budgetMessages(report), []);
+    assert.ok(report.smoothness !== null);
+  });
+});

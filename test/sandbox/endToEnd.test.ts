@@ -120,4 +120,29 @@ describe('sandbox with the engine', () => {
       fast.dispose();
     }
   });
+
+  test('a slow objective is checked within the time budget: what was decided comes back, never a timeout', async () => {
+    // 25 ms per call by the clock, at n = 12: the whole plan takes far longer than the 1.5 s budget.
+    // f = Σ (i + 1)·xᵢ², ∇f = 2(i + 1)·xᵢ (textbook calculus).
+    const text = [
+      'const wait = (ms: number) => { const end = Date.now() + ms; while (Date.now() < end) {} };',
+      'export function objective(x: number[]): number { wait(25); return x.reduce((s, v, i) => s + (i + 1) * v * v, 0); }',
+      'export function gradient(x: number[]): number[] { wait(25); return x.map((v, i) => 2 * (i + 1) * v); }',
+      '',
+    ].join('\n');
+    const budgeted = new SandboxPool({ sandboxScript, timeoutMs: 1500 });
+    try {
+      const bundle = await project.bundle(text, 'slow.ts');
+      const probe = Array.from({ length: 12 }, (_, i) => 0.5 + i / 10);
+      const { report } = await budgeted.run(bundle, planFor({ probes: [probe], dimension: 12 }));
+      assert.notEqual(report.status, 'error', JSON.stringify(report.findings));
+      assert.equal(report.findings.some((f) => f.code === 'timeout'), false);
+      const spent = report.findings.find((f) => f.code === 'budget-spent');
+      assert.ok(spent, JSON.stringify(report.findings));
+      assert.match(spent.message, /calls of the objective and gradient, about \d/);
+    } finally {
+      budgeted.dispose();
+    }
+  });
 });
+

@@ -12,6 +12,7 @@ export const findingTitles: Record<FindingCode, string> = {
   'non-smooth-probe': 'One-sided differences disagree at a probe: the objective has a kink there, so no verdict is possible.',
   'noisy-objective': 'The objective is too noisy near a probe to decide whether the gradient is right.',
   'gradient-undecided': 'Some components (or directions) of the gradient were neither confirmed nor found wrong at any probe, so the pair does not pass.',
+  'budget-spent': 'The check ran out of its time budget; the report holds what was decided before that.',
   'stationary-probe': 'The gradient is zero at a probe within the error bounds, so a wrong sign or factor cannot show there.',
   'objective-not-a-number': 'The objective returns something other than a number.',
   'unrepeatable-objective': 'Two calls of the objective at the same point gave different values.',

@@ -1,4 +1,5 @@
 // Command-line arguments of `slopecheck`.
+import { defaultSettings } from '../shared/settings';
 export type OutputFormat = 'text' | 'json' | 'sarif';
 
 export interface CliArguments {
@@ -17,7 +18,7 @@ its code in a sandbox process.
 
   --format      text (default), json or sarif; json and sarif go to stdout alone
   --seed        seed of the random probes and directions (default 1)
-  --timeout-ms  time limit for checking one pair, in milliseconds (default 5000)
+  --timeout-ms  time limit for checking one pair, in milliseconds (default 10000)
   --help        show this text
 
 Exit status: 0 no error-level finding, 1 at least one, 2 usage error or unreadable input.`;
@@ -26,7 +27,7 @@ export class UsageError extends Error {}
 
 /** Parses argv (without node and script); throws UsageError with a message fit for the user. */
 export function parseArguments(argv: string[]): CliArguments | 'help' {
-  const result: CliArguments = { format: 'text', seed: 1, timeoutMs: 5000, paths: [] };
+  const result: CliArguments = { format: 'text', seed: 1, timeoutMs: defaultSettings.timeoutMs, paths: [] };
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
     const [flag, inlineValue] = arg.startsWith('--') && arg.includes('=') ? [arg.slice(0, arg.indexOf('=')), arg.slice(arg.indexOf('=') + 1)] : [arg, undefined];

@@ -8,7 +8,7 @@ import { probesAroundStart } from './startProbes';
 import { combineSmoothness, probeSmoothness, type ProbeSmoothness } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
 import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type UndecidedReason, type Vector } from './types';
-import { CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
+import { BudgetSpent, CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
 
 /** The user's functions as the engine sees them; the sandbox builds these. */
 export interface PairFunctions {
@@ -21,6 +21,8 @@ export interface PairFunctions {
 export type PairPlan = Pick<CheckPlan, 'dimension' | 'learningRate' | 'options'> & {
   /** The user's starting point, read from their module: probe 1 when no probes are given. */
   startPoint?: number[] | null;
+  /** Clock time by which the check must be done (the sandbox's budget); it then reports what it decided. */
+  endsAt?: number | null;
 };
 
 // Independent seeded streams, so one probe's choices do not shift another's.
@@ -40,7 +42,7 @@ export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan
     const options: CheckOptions = { ...defaultCheckOptions, ...(plan && plan.options) };
     const points = probePoints(probes, plan, options, report);
     if (points !== null) {
-      calls = createUserCalls(fns, points[0].length);
+      calls = createUserCalls(fns, points[0].length, { clock: () => readClock(clock), endsAt: plan.endsAt ?? null });
       runChecks(calls, points, probes, plan, options, report);
     }
   } catch (err) {
@@ -101,19 +103,52 @@ function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, 
   return points;
 }
 
+/** Another probe is started only when this many times the last probe's time is left in the budget. */
+const probeTimeMargin = 1.2;
+
 function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): void {
+  // The gradient verdict first, probe by probe while it keeps passing: a mismatch decides it.
   const outcomes: ProbeOutcome[] = [];
-  for (let p = 0; p < points.length; p++) {
-    const outcome = checkProbe(calls, points[p], p, options, createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p), !outcomes.some((o) => o.mismatch));
-    outcomes.push(outcome);
-    report.probes.push(outcome.report);
-    report.findings.push(...outcome.findings);
+  let cutShort = false;
+  try {
+    for (let p = 0; p < points.length; p++) {
+      const callsBefore = calls.counts.objective + calls.counts.gradient;
+      const outcome = checkProbe(calls, points[p], p, options, createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p), true);
+      outcomes.push(outcome);
+      report.probes.push(outcome.report);
+      report.findings.push(...outcome.findings);
+      if (outcome.mismatch) break;
+      if (outcome.cut) {
+        cutShort = true;
+        break;
+      }
+      // Sized to the budget from what this probe cost: a probe that cannot end in time is not begun.
+      const probeMs = (calls.counts.objective + calls.counts.gradient - callsBefore) * calls.meanCallMs();
+      if (p + 1 < points.length && calls.remainingMs() < probeTimeMargin * probeMs) {
+        cutShort = true;
+        break;
+      }
+    }
+  } catch (err) {
+    if (!(err instanceof BudgetSpent)) throw err;
+    cutShort = true;
   }
+  if (outcomes.length === 0) {
+    report.status = 'inconclusive';
+    report.findings.push(budgetFinding(calls, `before probe 1 was decided; no verdict`));
+    return;
+  }
+  if (cutShort) report.findings.push(budgetFinding(calls, `after ${outcomes.length === 1 ? 'probe 1' : `probes 1–${outcomes.length}`} of ${points.length}; the verdict rests on ${outcomes.length === 1 ? 'it' : 'them'}`));
   report.maxRelError = Math.max(...outcomes.map((o) => o.report.maxRelError));
   const failing = outcomes.find((o) => o.mismatch);
   report.diagnosis = failing ? failing.diagnosis : null;
   const studied = failing ?? outcomes[0];
-  studied.report.stepStudy = buildStepStudy(studied);
+  try {
+    studied.report.stepStudy = buildStepStudy(studied);
+  } catch (err) {
+    // The plot is left out; the verdict does not depend on it.
+    if (!(err instanceof BudgetSpent)) throw err;
+  }
 
   const unrepeatable = outcomes.filter((o) => o.unrepeatable);
   if (unrepeatable.length > 0) {
@@ -145,6 +180,18 @@ function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][],
   // A wrong gradient gives wrong curvature, so smoothness and rates are only
   // estimated when no mismatch was found, and only at probes where f is smooth.
   if (failing) return;
+  try {
+    estimateSmoothness(calls, outcomes, probes, plan, options, report);
+  } catch (err) {
+    if (!(err instanceof BudgetSpent)) throw err;
+    report.smoothness = null;
+    report.learningRate = null;
+    report.findings.push(budgetFinding(calls, 'before the smoothness estimate was done; no learning-rate verdict'));
+  }
+}
+
+/** L̂ and the learning-rate verdict, once the gradient is known to be right. */
+function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): void {
   const smooth = outcomes.filter((o) => !o.kink);
   const perProbe: ProbeSmoothness[] = [];
   for (const outcome of smooth) {
@@ -197,6 +244,10 @@ function unconfirmedDerivatives(outcomes: ProbeOutcome[]): Finding | null {
       else if (c.undecided && !reasonOf.has(c.index)) reasonOf.set(c.index, c.undecided);
     }
   }
+  // Components no probe reached before the time budget ran out.
+  for (let index = 0; index < outcomes[0].context.x.length; index++) {
+    if (!confirmed.has(index) && !reasonOf.has(index)) reasonOf.set(index, 'out-of-time');
+  }
   // Stationary probes and kinks have findings of their own.
   const open = [...reasonOf].filter(([index, reason]) => !confirmed.has(index) && reason !== 'stationary' && reason !== 'not-smooth');
   if (open.length === 0) return null;
@@ -224,6 +275,17 @@ function stationaryFinding(stationary: ProbeOutcome[], all: boolean): Finding {
     subject: 'probe',
     probeIndex: stationary[0].context.probeIndex,
     message: `${which} ${stationary.length === 1 ? 'is a stationary point' : 'are stationary points'}: the gradient is zero there within the error bounds, so a wrong sign or factor cannot show; ${consequence}`,
+  };
+}
+
+/** The check ran out of its time budget: what was left undone, with the figures to size the budget. */
+function budgetFinding(calls: UserCalls, where: string): Finding {
+  const made = calls.counts.objective + calls.counts.gradient;
+  return {
+    code: 'budget-spent',
+    severity: 'info',
+    subject: 'objective',
+    message: `the time budget ran out ${where} (${made} calls of the objective and gradient, about ${formatBound(calls.meanCallMs())} ms each); a larger time limit would let the check finish`,
   };
 }
 

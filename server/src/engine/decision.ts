@@ -77,4 +77,5 @@ export const undecidedWording: Readonly<Record<UndecidedReason, string>> = {
   'singular-within-step': 'the differences do not settle as the step shrinks (a pole or singularity lies within the step)',
   'not-smooth': 'the objective has a kink there',
   stationary: 'the probe is a stationary point, where the gradient is zero within the error bounds',
+  'out-of-time': 'the time budget ran out before it was checked',
 };

@@ -3,6 +3,7 @@
 import { componentCheckOf } from './decision';
 import { defaultDifferenceSettings } from './differences';
 import { checkSlice, initialRelativeStep, type ProbeContext } from './probeContext';
+import { BudgetSpent } from './userCalls';
 import type { ComponentCheck } from './types';
 import type { CallSite } from './userCalls';
 import { offsetComponent } from './vectors';
@@ -11,6 +12,8 @@ export interface FullCheckResult {
   components: ComponentCheck[];
   /** Components where f looks non-smooth. */
   kinks: number[];
+  /** The time budget ran out before every component was checked; `components` holds those that were. */
+  cut: boolean;
   /** Step of the best estimate, per component. */
   steps: number[];
 }
@@ -19,13 +22,22 @@ export function checkEveryComponent(context: ProbeContext): FullCheckResult {
   const { x, gradient } = context;
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a finite-difference point' };
   const relativeStep = initialRelativeStep(context);
-  const result: FullCheckResult = { components: [], kinks: [], steps: [] };
+  const result: FullCheckResult = { components: [], kinks: [], steps: [], cut: false };
   for (let i = 0; i < x.length; i++) {
     const phi = (t: number) => context.calls.objective(offsetComponent(x, i, t), site);
     const scale = Math.max(Math.abs(x[i]), 1);
     // Each component is judged against its own size: a tiny component must be resolved on its own.
     const scales = { roundoffScale: Math.abs(gradient[i]), unit: context.gradientUnit, size: 0 };
-    const { numerical, verdict } = checkSlice(phi, context.value, relativeStep * scale, gradient[i], scales, { ...defaultDifferenceSettings, noise: context.noise });
+    let checked;
+    try {
+      checked = checkSlice(phi, context.value, relativeStep * scale, gradient[i], scales, { ...defaultDifferenceSettings, noise: context.noise });
+    } catch (err) {
+      // Out of time: the components checked so far still count (a mismatch among them decides).
+      if (!(err instanceof BudgetSpent)) throw err;
+      result.cut = true;
+      break;
+    }
+    const { numerical, verdict } = checked;
     result.components.push(componentCheckOf(i, gradient[i], numerical.value, verdict));
     result.steps.push(numerical.step);
     if (numerical.kink) result.kinks.push(i);

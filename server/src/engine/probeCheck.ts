@@ -26,6 +26,8 @@ export interface ProbeOutcome {
   noisy: boolean;
   /** Every component (full mode) or direction (directional mode) got a verdict here. */
   complete: boolean;
+  /** The time budget ran out during this probe's check: only some components were checked. */
+  cut: boolean;
   /** f(x) differed between two calls at the same point. */
   unrepeatable: boolean;
   /** f(x) of the second call. */
@@ -85,6 +87,7 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
     stationary: false,
     noisy: false,
     complete: false,
+    cut: false,
     unrepeatable,
     repeatedValue: repeated,
     findings: [],
@@ -110,12 +113,14 @@ function runFull(outcome: ProbeOutcome): void {
   const mismatched = full.components.filter((c) => c.mismatch);
   outcome.mismatch = mismatched.length > 0;
   outcome.kink = full.kinks.length > 0;
+  outcome.cut = full.cut;
   classifyProbe(outcome, full.components);
+  if (full.cut) outcome.complete = false;
   report.components = full.components.map(sanitiseComponent);
   report.maxRelError = Math.max(0, ...full.components.filter((c) => !c.undecided).map((c) => c.relError));
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
   if (!outcome.mismatch) return;
-  outcome.diagnosis = diagnoseComponents(full.components, true);
+  outcome.diagnosis = diagnoseComponents(full.components, !full.cut);
   const shape = outcome.diagnosis ? `${describeDiagnosis(outcome.diagnosis)}. ` : '';
   const finding = makeFinding('gradient-mismatch', 'gradient', `gradient disagrees with central differences at probe ${outcome.context.probeIndex + 1}: ${shape}${describeComponents(mismatched)}`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
   finding.components = mismatched.map((c) => c.index);

@@ -107,6 +107,7 @@ export type FindingCode =
   | 'non-smooth-probe'
   | 'noisy-objective'
   | 'gradient-undecided'
+  | 'budget-spent'
   | 'stationary-probe'
   | 'objective-not-a-number'
   | 'unrepeatable-objective'
@@ -153,9 +154,9 @@ export interface Finding {
 /**
  * Why a derivative got no verdict: its error bound is as large as it is, the differences do not
  * settle as the step shrinks (a pole or singularity within the step), the objective has a kink
- * there, or the whole probe is a stationary point.
+ * there, the whole probe is a stationary point, or the time budget ran out before it was checked.
  */
-export type UndecidedReason = 'bound-too-wide' | 'singular-within-step' | 'not-smooth' | 'stationary';
+export type UndecidedReason = 'bound-too-wide' | 'singular-within-step' | 'not-smooth' | 'stationary' | 'out-of-time';
 
 /** One component of the full (coordinate-wise) check. */
 export interface ComponentCheck {

@@ -9,6 +9,19 @@ export class CheckStopped {
   constructor(readonly finding: Finding) {}
 }
 
+/**
+ * Thrown before a call that would end past the time budget: the check reports what it has
+ * decided so far (checkPair), instead of being stopped from outside with nothing.
+ */
+export class BudgetSpent {}
+
+/** When the engine must stop starting calls, on the clock it is given. */
+export interface CallBudget {
+  clock(): number;
+  /** Clock time by which the last call must have ended; null for none. */
+  endsAt: number | null;
+}
+
 /** Where a call happens, for messages: probe index and what the point is. */
 export interface CallSite {
   probeIndex: number;
@@ -25,10 +38,17 @@ export interface UserCalls {
   gradient(x: Float64Array, site: CallSite): Float64Array;
   /** Warnings noticed along the way (input mutation), each reported once. */
   readonly warnings: Finding[];
+  /** Mean clock time of one call so far (objective and gradient together), 0 before any. */
+  meanCallMs(): number;
+  /** Clock time left in the budget; Infinity without one. */
+  remainingMs(): number;
 }
 
-export function createUserCalls(fns: PairFunctions, dimension: number): UserCalls {
+export function createUserCalls(fns: PairFunctions, dimension: number, budget: CallBudget = { clock: () => 0, endsAt: null }): UserCalls {
   const counts = { objective: 0, gradient: 0 };
+  let spentMs = 0;
+  const meanCallMs = () => (counts.objective + counts.gradient > 0 ? spentMs / (counts.objective + counts.gradient) : 0);
+  const remainingMs = () => (budget.endsAt === null ? Number.POSITIVE_INFINITY : budget.endsAt - budget.clock());
   const warnings: Finding[] = [];
   const mutationSeen = { objective: false, gradient: false };
 
@@ -39,10 +59,14 @@ export function createUserCalls(fns: PairFunctions, dimension: number): UserCall
     } catch (err) {
       throw stop('runtime-error', which, `could not build the argument vector for the ${which} at ${describeSite(site)}: ${describeThrown(err).text}`, site);
     }
+    // A call expected to end past the budget is not started.
+    if (remainingMs() < meanCallMs()) throw new BudgetSpent();
     counts[which]++;
     let result: unknown;
+    const started = budget.clock();
     try {
       result = which === 'objective' ? fns.objective(argument as Float64Array) : fns.gradient(argument as Float64Array);
+      spentMs += Math.max(0, budget.clock() - started);
     } catch (err) {
       const thrown = describeThrown(err);
       const finding = makeFinding('runtime-error', which, `the ${which} threw at ${describeSite(site)}: ${thrown.text}`, site);
@@ -82,6 +106,8 @@ export function createUserCalls(fns: PairFunctions, dimension: number): UserCall
     dimension,
     counts,
     warnings,
+    meanCallMs,
+    remainingMs,
     objective(x, site) {
       const result = call('objective', x, site);
       if (typeof result !== 'number') {

@@ -120,7 +120,8 @@ function withRepeats(message: string, findings: Finding[], outcome: PairOutcome)
 function seenAt(findings: Finding[], outcome: PairOutcome): string {
   const probes = new Set(findings.flatMap((f) => (f.probeIndex === undefined ? [] : [f.probeIndex])));
   const total = outcome.report.probes.length;
-  if (probes.size === 0 || total === 0) return '';
+  // One probe checked says nothing more: the check stops at the first probe with a mismatch.
+  if (probes.size === 0 || total <= 1) return '';
   return ` Seen at ${probes.size} of ${total} ${total === 1 ? 'probe' : 'probes'}.`;
 }
 

@@ -50,18 +50,21 @@ export function loadModule(factory: (exports: unknown, module: LoadedModule, req
   }
 }
 
-/** Runs the plan against the module loaded by `loadModule`. */
-export function runLoaded(planJson: string): string {
+/**
+ * Runs the plan against the module loaded by `loadModule`. `endsAt` is the clock time by which
+ * the engine must have reported (null for no budget): it then reports what it has decided.
+ */
+export function runLoaded(planJson: string, endsAt: number | null = null): string {
   if (!loadedScope) return stringify(errorReport([internalFinding('the module was not loaded')]));
-  return run(loadedScope, planJson);
+  return run(loadedScope, planJson, checkPair, endsAt);
 }
 
 /** Resolves the plan's call recipe in `scope` and checks the target; returns the JSON of a PairReport. */
-export function run(scope: ModuleScope, planJson: string, check: typeof checkPair = checkPair): string {
+export function run(scope: ModuleScope, planJson: string, check: typeof checkPair = checkPair, endsAt: number | null = null): string {
   const started = now();
   let report: PairReport;
   try {
-    report = runPlan(scope, parse(planJson) as CheckPlan, check);
+    report = runPlan(scope, parse(planJson) as CheckPlan, check, endsAt);
   } catch (thrown) {
     report = errorReport([thrownFinding(thrown, 'objective', 'The check failed unexpectedly')], now() - started);
   }
@@ -75,7 +78,7 @@ export function run(scope: ModuleScope, planJson: string, check: typeof checkPai
 /** A value of the user's module, or the finding that says why it could not be had. */
 type Read = { value: unknown } | { finding: Finding };
 
-function runPlan(scope: ModuleScope, plan: CheckPlan, check: typeof checkPair): PairReport {
+function runPlan(scope: ModuleScope, plan: CheckPlan, check: typeof checkPair, endsAt: number | null): PairReport {
   const started = now();
   const read = (key: string): Read => readScope(scope, key);
   const functions = resolveFunctions(read, plan);
@@ -93,7 +96,7 @@ function runPlan(scope: ModuleScope, plan: CheckPlan, check: typeof checkPair): 
     if (!Array.isArray(point)) return errorReport([point], now() - started);
     startPoint = point;
   }
-  const report = check(functions, probes, { dimension: plan.dimension, learningRate: plan.learningRate, options: plan.options, startPoint }, now);
+  const report = check(functions, probes, { dimension: plan.dimension, learningRate: plan.learningRate, options: plan.options, startPoint, endsAt }, now);
   report.findings = [...probeFindings, ...report.findings];
   return report;
 }

@@ -13,11 +13,12 @@ import { validateConsole, validateReport } from './validateReport';
 import type { SandboxReceipt, SandboxReply, SandboxRequest } from './protocol';
 import { cancelledFinding, errorReport, timeoutFinding } from './reports';
 import { locateInUserSource } from './sourceMap';
+import { defaultSettings } from '../shared/settings';
 
 export interface SandboxPoolOptions {
   /** Path of the built dist/sandbox.js. */
   sandboxScript: string;
-  /** Budget of one pair's whole plan, module load included. Default 5000. */
+  /** Budget of one pair's whole plan, module load included: the engine reports what it decided by then. Default 10000. */
   timeoutMs?: number;
   /**
    * Memory of each sandbox process, in MB: its resident set (read from outside, so memory outside
@@ -98,7 +99,7 @@ export class SandboxPool {
 
   constructor(options: SandboxPoolOptions) {
     this.sandboxScript = path.resolve(options.sandboxScript);
-    this.timeoutMs = options.timeoutMs ?? 5000;
+    this.timeoutMs = options.timeoutMs ?? defaultSettings.timeoutMs;
     this.memoryMb = options.memoryMb ?? 512;
     this.size = Math.max(1, options.size ?? 1);
     this.launch = sandboxLaunch(this.sandboxScript, this.memoryMb, semiSpaceMb);

@@ -13,7 +13,7 @@ export function timeoutFinding(timeoutMs: number): Finding {
     code: 'timeout',
     severity: 'error',
     subject: 'objective',
-    message: `The check did not finish within ${timeoutMs} ms; the module or one of its functions may loop forever.`,
+    message: `The module, or one call into it, did not return within the ${timeoutMs} ms budget: it may loop forever, or one call takes longer than the whole budget.`,
   };
 }
 

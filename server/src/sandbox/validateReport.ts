@@ -111,7 +111,7 @@ const mismatchRank = (c: unknown) => (isRecord(c) && ownValue(c, 'mismatch') ===
 
 /** What a component check and a direction check share. */
 const compared = { analytic: measurement, numerical: measurement, errorBound: measurement, mismatch: boolean };
-const undecided = { undecided: oneOf(wordsOf<UndecidedReason>({ 'bound-too-wide': true, 'singular-within-step': true, 'not-smooth': true, stationary: true })) };
+const undecided = { undecided: oneOf(wordsOf<UndecidedReason>({ 'bound-too-wide': true, 'singular-within-step': true, 'not-smooth': true, stationary: true, 'out-of-time': true })) };
 const directionalCheck = objectOf<DirectionalCheck>(compared, undecided);
 const componentCheck = objectOf<ComponentCheck>({ index: count, ...compared, relError: measurement }, undecided);
 

@@ -21,7 +21,8 @@ export interface SlopecheckSettings {
 export const defaultSettings: SlopecheckSettings = {
   checkWhen: 'openAndSave',
   typingDelayMs: 600,
-  timeoutMs: 5000,
+  // Enough for the gradient verdict at one probe of an objective taking 50 ms per call at n = 20 (about 170 calls).
+  timeoutMs: 10000,
   memoryMb: 512,
   probeCount: defaultCheckOptions.probeCount,
   seed: defaultCheckOptions.seed,
