@@ -50,9 +50,9 @@ test('headline caution, verdict and figures table', () => {
   assert.match(passingHtml, /class="verdict verdict-pass" data-status="pass">gradient matches</);
   assert.match(passingHtml, /<th scope="row">L̂ \(local Lipschitz estimate\)<\/th><td>(20|19\.9999\d*|20\.0000\d*)<\/td>/);
   assert.match(passingHtml, /<th scope="row">Safe step 1\/L̂<\/th><td>0\.05(0000\d*)?<\/td>/);
-  assert.match(passingHtml, /<th scope="row">Divergence step 2\/L̂<\/th><td>0\.1(00000\d*)?<\/td>/);
+  assert.match(passingHtml, /<th scope="row">Divergence step 2\/λ⁺<\/th><td>0\.1(00000\d*)?<\/td>/);
   assert.match(passingHtml, /<th scope="row">Learning rate<\/th><td>lr = 0\.08: aggressive<\/td>/);
-  assert.equal(passingHtml.split('class="run run-').length - 1, 3, 'descent runs at the declared rate, 1/L̂ and 2/L̂');
+  assert.equal(passingHtml.split('class="run run-').length - 1, 3, 'descent runs at the declared rate, 1/L̂ and 2/λ⁺');
 });
 
 test("the user's names, messages and console output are escaped", () => {

@@ -199,3 +199,56 @@ describe('a time budget', () => {
     assert.ok(report.smoothness !== null);
   });
 });
+
+describe('curvature and learning rates', () => {
+  const withRate = (value: number, options = defaultCheckOptions) => ({ dimension: null, learningRate: { name: 'rate', value }, options });
+
+  test('mixed coordinate scales: x₀ near 10⁶ beside x₁ near 0 give the true curvatures, and a safe rate stays safe', () => {
+    // f = x₀² + 50·x₁²: Hessian diag(2, 100) (elementary calculus).
+    const f = (x: ArrayLike<number>) => x[0] ** 2 + 50 * x[1] ** 2;
+    const g: Gradient = (x) => [2 * x[0], 100 * x[1]];
+    const report = checkPair({ objective: f, gradient: g, makeVector: makeArray }, [[1e6, 0.3]], withRate(0.009));
+    assert.equal(report.status, 'pass', JSON.stringify(report.findings));
+    assert.ok(Math.abs(report.smoothness!.lipschitz - 100) < 0.1, `L̂ ${report.smoothness!.lipschitz}`);
+    assert.equal(report.learningRate?.status, 'safe');
+  });
+
+  test('negative curvature counts toward the safe step, not toward divergence', () => {
+    // f = ½x₀² − 2x₁²: curvatures 1 and −4. Gradient descent multiplies x₀ by (1 − α) and x₁ by
+    // (1 + 4α), so f keeps decreasing for α < 2 and x₀ diverges only from α ≥ 2 (by hand).
+    const f = (x: ArrayLike<number>) => 0.5 * x[0] ** 2 - 2 * x[1] ** 2;
+    const g: Gradient = (x) => [x[0], -4 * x[1]];
+    const probes = [[0.7, 0.4]];
+    const moderate = checkPair({ objective: f, gradient: g, makeVector: makeArray }, probes, withRate(0.8));
+    assert.ok(Math.abs(moderate.smoothness!.lipschitz - 4) < 1e-3, `L̂ ${moderate.smoothness!.lipschitz}`);
+    assert.ok(Math.abs(moderate.smoothness!.divergenceStep! - 2) < 1e-3, `2/λ⁺ ${moderate.smoothness!.divergenceStep}`);
+    assert.equal(moderate.learningRate?.status, 'aggressive');
+    assert.equal(moderate.findings.some((x) => x.code === 'rate-divergent'), false);
+    assert.equal(checkPair({ objective: f, gradient: g, makeVector: makeArray }, probes, withRate(2.5)).learningRate?.status, 'divergent');
+  });
+
+  test('only negative curvature: no divergence threshold at all', () => {
+    // f = −x₀² − x₁²: every step of gradient descent decreases f (by hand).
+    const f = (x: ArrayLike<number>) => -(x[0] ** 2) - x[1] ** 2;
+    const report = checkPair({ objective: f, gradient: (x) => [-2 * x[0], -2 * x[1]], makeVector: makeArray }, [[0.5, -0.8]], withRate(5));
+    assert.equal(report.smoothness!.divergenceStep, null);
+    assert.equal(report.learningRate?.status, 'aggressive');
+    assert.match(report.findings.find((x) => x.code === 'rate-aggressive')!.message, /no positive curvature found, so no divergence threshold/);
+  });
+
+  test('an unconverged Lanczos estimate widens L̂ upward and says so', () => {
+    // ½xᵀAx with A = diag(1, 2, …, 60): λmax = 60. Three Lanczos steps cannot converge on it.
+    const n = 60;
+    const f = (x: ArrayLike<number>) => { let s = 0; for (let i = 0; i < n; i++) s += 0.5 * (i + 1) * x[i] ** 2; return s; };
+    const g: Gradient = (x) => Array.from({ length: n }, (_, i) => (i + 1) * x[i]);
+    const probe = [Array.from({ length: n }, (_, i) => 1 + Math.sin(i))];
+    const report = checkPair({ objective: f, gradient: g, makeVector: makeArray }, probe, withRate(0.0175, { ...defaultCheckOptions, lanczosSteps: 3 }));
+    const ritz = report.probes[0].smoothness!.lambdaMax;
+    assert.ok(ritz < 59, `the Ritz value ${ritz} has not reached 60`);
+    assert.equal(report.smoothness!.widened, true);
+    assert.ok(report.smoothness!.lipschitz > ritz, `L̂ ${report.smoothness!.lipschitz} above the Ritz value ${ritz}`);
+    // 0.0175 > 1/60: the widened L̂ keeps it from being called safe.
+    assert.notEqual(report.learningRate?.status, 'safe');
+    assert.match(report.findings.find((x) => x.code.startsWith('rate-'))!.message, /widened by the residual of a Lanczos estimate that had not converged/);
+  });
+});

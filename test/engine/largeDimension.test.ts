@@ -108,7 +108,9 @@ describe('large dimension', () => {
     assert.equal(report.status, 'pass', JSON.stringify(report.findings));
     assert.equal(report.probes[0].directions.length, defaultCheckOptions.directionCount);
     // Hessian is diagonal 2·w_i − sin(x_i) with w_i ∈ 1..7: curvature within [1, 15] (by hand).
-    assert.ok(report.smoothness!.lipschitz > 13 && report.smoothness!.lipschitz <= 15, `L̂ ${report.smoothness!.lipschitz}`);
+    // An unconverged Lanczos estimate is widened upward by its residual, and says so.
+    const { lipschitz, widened } = report.smoothness!;
+    assert.ok(lipschitz > 13 && (lipschitz <= 15 || (widened === true && lipschitz <= 15.5)), `L̂ ${lipschitz}, widened ${widened}`);
   });
 });
 

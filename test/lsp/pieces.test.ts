@@ -64,7 +64,7 @@ test('hover card: verdict, error, local steps, probes and cost, with the caution
   assert.match(card, /^\*\*`fit` → `fitGrad`\*\* · gradient matches/);
   assert.match(card, /max relative error \| 2\.5e-12 \|/);
   assert.match(card, /safe step 1\/L̂ \| 0\.0269 \|/);
-  assert.match(card, /divergence at 2\/L̂ \| 0\.0537 \|/);
+  assert.match(card, /divergence at 2\/λ⁺ \| 0\.0537 \|/);
   assert.match(card, /κ̂ = L̂\/μ̂ \| 14\.9 \|/);
   assert.match(card, /learning rate `lr` = 0\.036 \| aggressive/);
   assert.match(card, /probes \| 3 in dimension 3: \[25, -20, 1\.5\], \[24, -23, 0\.5\], and 1 more \|/);

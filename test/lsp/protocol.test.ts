@@ -99,7 +99,7 @@ describe('a full client', () => {
     const card = (hover.contents as { value: string }).value;
     // fixtures/demo/expected.json: L = 37.215, so 1/L = 0.02687 and 2/L = 0.05374.
     assert.match(card, /safe step 1\/L̂ \| 0\.0269 \|/);
-    assert.match(card, /divergence at 2\/L̂ \| 0\.0537 \|/);
+    assert.match(card, /divergence at 2\/λ⁺ \| 0\.0537 \|/);
     assert.match(card, /aggressive/);
     assert.match(card, /local estimates near the probes/);
 

@@ -123,7 +123,7 @@ describe('Neovim 0.7 as the LSP client, with no settings sent', () => {
     assert.match(subset.message, new RegExp(`component ${pair('rackDrying').components!.join(', ')} wrong`));
   });
 
-  test('hover shows the safe step 1/L̂ and the divergence threshold 2/L̂', async () => {
+  test('hover shows the safe step 1/L̂ and the divergence threshold 2/λ⁺', async () => {
     const r = await result;
     const cards = r.hovers.map((h) => h.result as { contents: { kind: string; value: string }; range: Range });
     for (const [card, objective, name] of [
@@ -133,11 +133,12 @@ describe('Neovim 0.7 as the LSP client, with no settings sent', () => {
       assert.equal(card.contents.kind, 'markdown');
       const text = card.contents.value;
       const { lipschitz, status, value, name: rateName } = pair(objective).learningRate!;
-      // Gradient descent on an L-smooth function: safe at 1/L, diverging on a quadratic at 2/L
-      // (Nesterov, Introductory Lectures on Convex Optimization, 2004, §1.2.3; from memory).
+      // Gradient descent on an L-smooth function: safe at 1/L, diverging on a quadratic at 2/λmax
+      // (Nesterov, Introductory Lectures on Convex Optimization, 2004, §1.2.3; from memory). Both
+      // objectives are convex near their probes, so the largest positive curvature λ⁺ is L.
       // The card shows three significant digits of a local estimate: allow 0.6 % either way.
       assertNear(cardNumber(text, 'safe step 1/L̂'), 1 / lipschitz, 6e-3, `${objective} safe step`);
-      assertNear(cardNumber(text, 'divergence at 2/L̂'), 2 / lipschitz, 6e-3, `${objective} divergence step`);
+      assertNear(cardNumber(text, 'divergence at 2/λ⁺'), 2 / lipschitz, 6e-3, `${objective} divergence step`);
       assert.match(text, new RegExp(`learning rate \`${rateName}\` = ${value} \\| ${status}`));
       const file = pair(objective).file.replace('src/', '');
       assert.deepEqual(card.range, declaredName(run.original(file), name), 'the hover covers the name');

@@ -190,7 +190,7 @@ export function eigenvaluePlot(probes: ProbeReport[], smoothness: SmoothnessEsti
   return svgDocument('eigenvalues', title, description, body);
 }
 
-const runNames: Record<DescentRun['label'], string> = { declared: 'declared α', safe: '1/L̂', limit: '2/L̂' };
+const runNames: Record<DescentRun['label'], string> = { declared: 'declared α', safe: '1/L̂', limit: '2/λ⁺' };
 
 /** f along the short gradient-descent runs; log y when the values are positive and span decades. */
 export function descentPlot(runs: DescentRun[] | undefined): string {

@@ -12,7 +12,7 @@ import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeInd
 const verdicts = verdictWords;
 
 export const localEstimateCaution =
-  'Every smoothness figure (L̂, μ̂, κ̂, 1/L̂, 2/L̂) is a local estimate measured near the probe points, not a bound over the whole domain: far from the probes the objective may be much steeper.';
+  'Every smoothness figure (L̂, μ̂, κ̂, 1/L̂, 2/λ⁺) is a local estimate measured near the probe points, not a bound over the whole domain: far from the probes the objective may be much steeper.';
 
 export function renderReport(result: PairReportResult): string {
   const { report } = result;
@@ -78,7 +78,7 @@ function figuresTable(report: PairReport): string {
     ['Shape of the error', report.diagnosis ? describeDiagnosis(report.diagnosis) : '—'],
     ['L̂ (local Lipschitz estimate)', formatFigure(s?.lipschitz)],
     ['Safe step 1/L̂', formatFigure(s?.safeStep)],
-    ['Divergence step 2/L̂', formatFigure(s?.divergenceStep)],
+    ['Divergence step 2/λ⁺', s?.divergenceStep === null ? 'none (no positive curvature)' : formatFigure(s?.divergenceStep)],
     ['μ̂ (smallest curvature)', formatFigure(s?.mu)],
     ['κ̂ = L̂/μ̂', formatFigure(s?.kappa)],
     ['Learning rate', rate ? `${rate.name} = ${formatFigure(rate.value)}: ${rate.status}` : 'none declared'],

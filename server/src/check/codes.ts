@@ -32,8 +32,8 @@ export const findingTitles: Record<FindingCode, string> = {
   'unpaired-function': 'A function that looks like a gradient was not paired with an objective.',
   'unknown-dimension': 'The number of parameters cannot be told; a probe point is needed.',
   'bad-probe': 'A probe point is malformed or does not match the other probes.',
-  'rate-aggressive': 'The declared learning rate is above the local safe step 1/L̂ but below the divergence threshold 2/L̂.',
-  'rate-divergent': 'The declared learning rate is at or above the local divergence threshold 2/L̂.',
+  'rate-aggressive': 'The declared learning rate is above the local safe step 1/L̂ but below the divergence threshold 2/λ⁺.',
+  'rate-divergent': 'The declared learning rate is at or above the local divergence threshold 2/λ⁺.',
   'rate-unconfirmed': 'A short run of gradient steps at the declared rate did not behave as the smoothness estimate predicts.',
 };
 

@@ -214,7 +214,8 @@ function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], probes: 
       declaredRuns.push(declaredRun);
       outcome.report.descent.push(declaredRun);
     }
-    outcome.report.descent.push(run(report.smoothness.safeStep, 'safe'), run(report.smoothness.divergenceStep, 'limit'));
+    outcome.report.descent.push(run(report.smoothness.safeStep, 'safe'));
+    if (report.smoothness.divergenceStep !== null) outcome.report.descent.push(run(report.smoothness.divergenceStep, 'limit'));
   }
   if (declared) {
     const review = reviewLearningRate(declared, report.smoothness, declaredRuns);

@@ -9,19 +9,23 @@ import { allFinite, norm2, offset } from './vectors';
 
 export type ProbeSmoothness = NonNullable<ProbeReport['smoothness']>;
 
-// Secant points sit this far from the probe, relative to max(‖x‖, 1).
+// Secant points sit this far from the probe in each coordinate, relative to max(|xᵢ|, 1).
 const secantDistance = 1e-3;
 const secantCount = 2;
 
 /**
  * Hv ≈ (∇f(x + t·v) − ∇f(x − t·v)) / 2t for unit v (Nocedal & Wright 2006, eq. 8.18
- * in central form). t ~ u^(1/3)·max(‖x‖, 1) balances O(t²) truncation against
- * roundoff u in the gradient (common practice).
+ * in central form). Each coordinate moves by at most u^(1/3)·max(|xᵢ|, 1), which
+ * balances O(t²) truncation against roundoff u in the gradient (common practice): one
+ * step scaled by ‖x‖ would move a coordinate near 0 as far as one near 10⁶.
  */
 export function hessianVectorProduct(context: ProbeContext): (v: Float64Array) => Float64Array | null {
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a Hessian-vector product point' };
-  const t = Math.cbrt(context.gradientUnit) * Math.max(norm2(context.x), 1);
+  const reach = Math.cbrt(context.gradientUnit);
   return (v) => {
+    let t = Number.POSITIVE_INFINITY;
+    for (let i = 0; i < v.length; i++) if (v[i] !== 0) t = Math.min(t, (reach * Math.max(Math.abs(context.x[i]), 1)) / Math.abs(v[i]));
+    if (!Number.isFinite(t)) return new Float64Array(v.length);
     const plus = context.calls.gradient(offset(context.x, t, v), site);
     const minus = context.calls.gradient(offset(context.x, -t, v), site);
     if (!allFinite(plus) || !allFinite(minus)) return null;
@@ -31,15 +35,20 @@ export function hessianVectorProduct(context: ProbeContext): (v: Float64Array) =
   };
 }
 
-/** ‖∇f(y) − ∇f(x)‖ / ‖y − x‖ for seeded y near x: a lower bound on the local Lipschitz constant. */
+/**
+ * ‖∇f(y) − ∇f(x)‖ / ‖y − x‖ for seeded y near x: a lower bound on the local Lipschitz constant.
+ * Each coordinate of y − x is at most `secantDistance`·max(|xᵢ|, 1), as for the products above.
+ */
 export function secantSlopes(context: ProbeContext, random: Random): number {
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a secant point' };
-  const distance = secantDistance * Math.max(norm2(context.x), 1);
   let largest = 0;
   for (let k = 0; k < secantCount; k++) {
     const u = normalVector(random, context.x.length);
-    const length = norm2(u);
-    const gradient = context.calls.gradient(offset(context.x, distance / length, u), site);
+    const biggest = Math.max(...u.map(Math.abs)) || 1;
+    const move = u.map((ui, i) => (secantDistance * Math.max(Math.abs(context.x[i]), 1) * ui) / biggest);
+    const distance = norm2(move);
+    if (!(distance > 0)) continue;
+    const gradient = context.calls.gradient(offset(context.x, 1, move), site);
     if (!allFinite(gradient)) continue;
     let squared = 0;
     for (let i = 0; i < gradient.length; i++) squared += (gradient[i] - context.gradient[i]) ** 2;
@@ -61,21 +70,39 @@ export function probeSmoothness(context: ProbeContext, random: Random, lanczosSt
   return estimate;
 }
 
-/** L̂ = largest of |λmax|, |λmin| and the secant slopes over all probes; μ̂ = smallest λmin. */
+/**
+ * Residuals below this share of a Ritz value are taken as converged and not added to L̂: a
+ * far smaller residual than any rate verdict can feel (common practice).
+ */
+const unconvergedShare = 1e-6;
+
+/**
+ * L̂ = largest of |λmax|, |λmin| (each widened by its Lanczos residual when unconverged: the Ritz
+ * value then lies below the extreme eigenvalue by up to about that much) and the secant slopes,
+ * over all probes: the safe step 1/L̂ comes from it. The divergence threshold 2/λ⁺ comes from the
+ * largest positive curvature alone, unwidened: a Ritz value lies inside the spectrum, so a rate at
+ * or above 2/λ⁺ diverges on the quadratic model, while negative curvature never makes it diverge.
+ * μ̂ = smallest λmin.
+ */
 export function combineSmoothness(perProbe: ProbeSmoothness[]): SmoothnessEstimate | null {
   if (perProbe.length === 0) return null;
   let lipschitz = 0;
   let lipschitzResidual: number | undefined;
+  let widened = false;
+  let positiveCurvature = 0;
   let mu = Number.POSITIVE_INFINITY;
   let muResidual: number | undefined;
   for (const s of perProbe) {
     // Each candidate for L̂ carries the residual of its Ritz value; a secant slope has none.
     for (const [value, residual] of [[Math.abs(s.lambdaMax), s.lambdaMaxResidual], [Math.abs(s.lambdaMin), s.lambdaMinResidual], [s.secantMax, undefined]] as const) {
-      if (value > lipschitz) {
-        lipschitz = value;
+      const open = residual !== undefined && residual > unconvergedShare * value ? residual : 0;
+      if (value + open > lipschitz) {
+        lipschitz = value + open;
         lipschitzResidual = residual;
+        widened = open > 0;
       }
     }
+    positiveCurvature = Math.max(positiveCurvature, s.lambdaMax);
     if (s.lambdaMin < mu) {
       mu = s.lambdaMin;
       muResidual = s.lambdaMinResidual;
@@ -83,8 +110,15 @@ export function combineSmoothness(perProbe: ProbeSmoothness[]): SmoothnessEstima
   }
   // No curvature at all (e.g. a linear f): no step size follows from it.
   if (!(lipschitz > 0) || !Number.isFinite(lipschitz)) return null;
-  const estimate: SmoothnessEstimate = { lipschitz, mu, kappa: mu > 0 ? lipschitz / mu : null, safeStep: 1 / lipschitz, divergenceStep: 2 / lipschitz };
+  const estimate: SmoothnessEstimate = {
+    lipschitz,
+    mu,
+    kappa: mu > 0 ? lipschitz / mu : null,
+    safeStep: 1 / lipschitz,
+    divergenceStep: positiveCurvature > 0 ? 2 / positiveCurvature : null,
+  };
   if (lipschitzResidual !== undefined) estimate.lipschitzResidual = lipschitzResidual;
   if (muResidual !== undefined) estimate.muResidual = muResidual;
+  if (widened) estimate.widened = true;
   return estimate;
 }

@@ -1,12 +1,12 @@
-// Learning-rate verdicts from the local Lipschitz estimate L̂ for gradient
-// descent w ← w − α∇f(w): α ≤ 1/L̂ safe, α ≥ 2/L̂ divergent along the steepest
-// curvature (Nocedal & Wright 2006, §3.3; common practice), confirmed by short runs.
+// Learning-rate verdicts from the local curvature for gradient descent w ← w − α∇f(w):
+// α ≤ 1/L̂ safe, α ≥ 2/λ⁺ divergent along the steepest positive curvature λ⁺ (on the
+// quadratic model; Nocedal & Wright 2006, §3.3; common practice), confirmed by short runs.
 import { formatValue } from './format';
 import type { DeclaredRate, DescentRun, Finding, LearningRateVerdict, RateStatus, SmoothnessEstimate } from './types';
 import { CheckStopped, type UserCalls } from './userCalls';
 
 export function rateStatus(rate: number, smoothness: SmoothnessEstimate): RateStatus {
-  if (rate >= smoothness.divergenceStep) return 'divergent';
+  if (smoothness.divergenceStep !== null && rate >= smoothness.divergenceStep) return 'divergent';
   if (rate > smoothness.safeStep) return 'aggressive';
   return 'safe';
 }
@@ -56,7 +56,11 @@ export function reviewLearningRate(declared: DeclaredRate, smoothness: Smoothnes
   const lipschitz = formatValue(smoothness.lipschitz);
   // Heavy-ball momentum changes the stable range of α; until that is modelled, say so next to the verdict.
   const momentumNote = momentum ? `; momentum ${momentum.name} = ${formatValue(momentum.value)} is used with it and is not taken into account` : '';
-  const bounds = `1/L̂ = ${formatValue(smoothness.safeStep)}, 2/L̂ = ${formatValue(smoothness.divergenceStep)} with L̂ = ${lipschitz} near the probes; ${localNote}${momentumNote}`;
+  const divergence = smoothness.divergenceStep === null
+    ? 'no positive curvature found, so no divergence threshold'
+    : `divergence at 2/λ⁺ = ${formatValue(smoothness.divergenceStep)}, λ⁺ the largest positive curvature`;
+  const widenedNote = smoothness.widened ? ', widened by the residual of a Lanczos estimate that had not converged' : '';
+  const bounds = `1/L̂ = ${formatValue(smoothness.safeStep)} with L̂ = ${lipschitz}${widenedNote}, ${divergence}, near the probes; ${localNote}${momentumNote}`;
   if (status === 'aggressive') {
     findings.push({ code: 'rate-aggressive', severity: 'warning', subject: 'learningRate', message: `learning rate ${name} = ${formatValue(rate)} is above the safe step but below the divergence threshold (${bounds})` });
   } else if (status === 'divergent') {

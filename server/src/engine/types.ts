@@ -235,7 +235,10 @@ export type Diagnosis =
 
 /** Local smoothness estimates near the probes. Never a global guarantee. */
 export interface SmoothnessEstimate {
-  /** L̂: largest curvature estimate found (Lanczos λ_max or secant). */
+  /**
+   * L̂: largest curvature magnitude found (Lanczos |λ_max|, |λ_min| or a secant slope), widened by
+   * the Lanczos residual when that Ritz value had not converged.
+   */
   lipschitz: number;
   /** μ̂: smallest curvature seen; negative means non-convex near the probes. */
   mu: number;
@@ -247,8 +250,14 @@ export interface SmoothnessEstimate {
   kappa: number | null;
   /** 1/L̂. */
   safeStep: number;
-  /** 2/L̂. */
-  divergenceStep: number;
+  /**
+   * 2/λ⁺ with λ⁺ the largest positive curvature (a Lanczos Ritz value, which lies below the true
+   * λ_max): steps at or above it diverge on the quadratic model. Null when no positive curvature
+   * was found: descent along negative curvature does not diverge on that model.
+   */
+  divergenceStep: number | null;
+  /** L̂ includes the residual of an unconverged Lanczos estimate. */
+  widened?: boolean;
 }
 
 export interface LearningRateVerdict {

@@ -21,8 +21,8 @@ export function nameAt(pairs: DiscoveredPair[], offset: number): { pair: Discove
 
 const rateWords: Record<RateStatus, string> = {
   safe: 'safe (at or below 1/L̂)',
-  aggressive: 'aggressive (between 1/L̂ and 2/L̂: may oscillate)',
-  divergent: 'divergent (at or above 2/L̂)',
+  aggressive: 'aggressive (between 1/L̂ and 2/λ⁺: may oscillate)',
+  divergent: 'divergent (at or above 2/λ⁺)',
 };
 
 const shownProbes = 2;
@@ -41,7 +41,7 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
   if (s) {
     rows.push(['L̂ (local Lipschitz estimate)', shortNumber(s.lipschitz)]);
     rows.push(['safe step 1/L̂', shortNumber(s.safeStep)]);
-    rows.push(['divergence at 2/L̂', shortNumber(s.divergenceStep)]);
+    rows.push(['divergence at 2/λ⁺', s.divergenceStep === null ? 'none (no positive curvature)' : shortNumber(s.divergenceStep)]);
     rows.push(['μ̂ (smallest curvature)', `${shortNumber(s.mu)}${s.mu < 0 ? ' (not convex here)' : ''}`]);
     rows.push(['κ̂ = L̂/μ̂', s.kappa === null ? '— (μ̂ ≤ 0)' : shortNumber(s.kappa)]);
   }

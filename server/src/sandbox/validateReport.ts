@@ -175,8 +175,8 @@ const diagnosisKind = objectOf<Pick<Diagnosis, 'kind'>>({ kind: oneOf(Object.key
 const diagnosis: Reader<Diagnosis> = (value, at) => diagnosisOfKind[diagnosisKind(value, at).kind](value, at);
 
 const smoothnessEstimate = objectOf<SmoothnessEstimate>(
-  { lipschitz: measurement, mu: measurement, kappa: nullOr(measurement), safeStep: measurement, divergenceStep: measurement },
-  { lipschitzResidual: measurement, muResidual: measurement },
+  { lipschitz: measurement, mu: measurement, kappa: nullOr(measurement), safeStep: measurement, divergenceStep: nullOr(measurement) },
+  { lipschitzResidual: measurement, muResidual: measurement, widened: boolean },
 );
 
 const learningRateVerdict = objectOf<LearningRateVerdict>(
