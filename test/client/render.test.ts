@@ -10,7 +10,8 @@ import type { PairReportResult } from '../../server/src/shared/protocol';
 // f(x) = x0² + 10·x1² has ∇f = (2·x0, 20·x1) and Hessian diag(2, 20), so L = 20, 1/L = 0.05, 2/L = 0.1 (by hand);
 // the declared rate 0.08 lies in (1/L, 2/L). The wrong gradient doubles component 1.
 const objective = (x: ArrayLike<number>) => x[0] ** 2 + 10 * x[1] ** 2;
-const plan = { dimension: null, learningRate: { name: 'lr', value: 0.08 }, options: { ...defaultCheckOptions } };
+// With plots, as the report asks for them.
+const plan = { dimension: null, learningRate: { name: 'lr', value: 0.08 }, options: { ...defaultCheckOptions, plots: true } };
 const check = (gradient: (x: ArrayLike<number>) => number[]) =>
   checkPair({ objective, gradient, makeVector: (values) => Array.from(values) }, [[1, -0.5]], plan);
 const passing = check((x) => [2 * x[0], 20 * x[1]]);

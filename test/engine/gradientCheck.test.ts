@@ -164,7 +164,7 @@ describe('report contents', () => {
   });
 
   test('step study of the worst component shows the truncation/noise trade-off', () => {
-    const report = check(rosenbrock.f, (x) => { const g = rosenbrock.g(x); g[0] += 1; return g; }, [rosenbrock.start]);
+    const report = checkPair({ objective: rosenbrock.f, gradient: (x) => { const g = rosenbrock.g(x); g[0] += 1; return g; }, makeVector: makeArray }, [rosenbrock.start], { ...plan(), options: { ...defaultCheckOptions, plots: true } });
     const study = report.probes[0].stepStudy!;
     assert.equal(study.component, 0);
     assert.equal(study.steps.length, study.errors.length);

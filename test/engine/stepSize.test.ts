@@ -12,8 +12,8 @@ const lambdaMax = 10;
 const objective = (x: ArrayLike<number>) => 0.5 * (x[0] ** 2 + lambdaMax * x[1] ** 2);
 const gradient = (x: ArrayLike<number>) => [x[0], lambdaMax * x[1]];
 
-function withRate(value: number): PairReport {
-  return checkPair({ objective, gradient, makeVector: makeArray }, [[1, 1], [-0.5, 2]], { dimension: 2, learningRate: { name: 'alpha', value }, options: defaultCheckOptions });
+function withRate(value: number, plots = false): PairReport {
+  return checkPair({ objective, gradient, makeVector: makeArray }, [[1, 1], [-0.5, 2]], { dimension: 2, learningRate: { name: 'alpha', value }, options: { ...defaultCheckOptions, plots } });
 }
 
 describe('learning-rate verdicts', () => {
@@ -39,14 +39,24 @@ describe('learning-rate verdicts', () => {
     assert.ok(run.values[run.values.length - 1] > run.values[0]);
   });
 
-  test('below 1/λmax: safe, no rate finding; safe and limit runs are recorded', () => {
-    const report = withRate(0.05);
+  test('below 1/λmax: safe, no rate finding; safe and limit runs are recorded when the report asks for plots', () => {
+    const report = withRate(0.05, true);
     assert.equal(report.learningRate!.status, 'safe');
     assert.equal(report.findings.some((f) => f.code.startsWith('rate-')), false);
     assert.ok(Math.abs(report.smoothness!.safeStep - 1 / lambdaMax) < 1e-6);
     const labels = report.probes[0].descent.map((r) => r.label);
     assert.deepEqual(labels, ['declared', 'safe', 'limit']);
     assert.equal(report.probes[0].descent[1].decreased, true);
+    assert.ok(report.probes[0].stepStudy !== null);
+  });
+
+  test('without plots, the same verdict from fewer calls: only the declared rate is run, and no step study', () => {
+    const [plain, plotted] = [withRate(0.05), withRate(0.05, true)];
+    assert.deepEqual(plain.learningRate, plotted.learningRate);
+    assert.deepEqual(plain.probes.map((p) => p.descent.map((r) => r.label)), [['declared'], ['declared']]);
+    assert.equal(plain.probes[0].stepStudy, null);
+    const calls = (r: PairReport) => r.evaluations.objective + r.evaluations.gradient;
+    assert.ok(calls(plain) < calls(plotted), `${calls(plain)} calls against ${calls(plotted)}`);
   });
 
   test('a verdict the short run contradicts is reported as unconfirmed', () => {

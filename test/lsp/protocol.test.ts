@@ -194,6 +194,9 @@ describe('a full client', () => {
     assert.equal(report.line, rangeOf(text, 'salinityCalibration').start.line);
     assert.ok(Math.abs(report.report.smoothness.lipschitz - 7.3565) < 1e-3 * 7.3565, 'L̂ matches expected.json (ml-matrix eigenvalues)');
     assert.equal(report.settings.seed, 1);
+    // The report asks for its plot data, which the everyday check leaves out.
+    assert.ok(report.report.probes[0].stepStudy.steps.length > 0, 'a step study for the plot');
+    assert.deepEqual(report.report.probes[0].descent.map((r: any) => r.label), ['declared', 'safe', 'limit']);
 
     const before = client.notifications.length;
     const again = await client.request('slopecheck/checkAgain', { uri });

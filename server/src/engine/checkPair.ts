@@ -144,7 +144,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][],
   report.diagnosis = failing ? failing.diagnosis : null;
   const studied = failing ?? outcomes[0];
   try {
-    studied.report.stepStudy = buildStepStudy(studied);
+    if (options.plots) studied.report.stepStudy = buildStepStudy(studied);
   } catch (err) {
     // The plot is left out; the verdict does not depend on it.
     if (!(err instanceof BudgetSpent)) throw err;
@@ -214,6 +214,7 @@ function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], probes: 
       declaredRuns.push(declaredRun);
       outcome.report.descent.push(declaredRun);
     }
+    if (!options.plots) continue;
     outcome.report.descent.push(run(report.smoothness.safeStep, 'safe'));
     if (report.smoothness.divergenceStep !== null) outcome.report.descent.push(run(report.smoothness.divergenceStep, 'limit'));
   }

@@ -30,6 +30,11 @@ export interface CheckOptions {
   lanczosSteps: number;
   /** Length of the short gradient-descent runs that confirm a learning-rate verdict. */
   descentSteps: number;
+  /**
+   * Also compute what only the report's plots show: the step study and descent runs at 1/L̂ and
+   * 2/λ⁺. They cost calls the verdict does not need, so only the report asks for them.
+   */
+  plots: boolean;
 }
 
 export const defaultCheckOptions: CheckOptions = {
@@ -39,6 +44,7 @@ export const defaultCheckOptions: CheckOptions = {
   directionCount: 6,
   lanczosSteps: 40,
   descentSteps: 20,
+  plots: false,
 };
 
 /** What a target checks. Only `gradient` today; Jacobian and Hessian kinds follow. */

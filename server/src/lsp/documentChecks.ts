@@ -110,6 +110,25 @@ export class DocumentChecks {
     return this.documents.get(uri)?.check?.pairs.find((p) => p.pair.objective.name === objective) ?? null;
   }
 
+  /**
+   * The pair's outcome with what only the report's plots need (step study, descent at 1/L̂ and
+   * 2/λ⁺), checked again for the current text: the everyday check leaves them out. The runner's
+   * cache answers when the report is opened again on the same text. Null before the pair's first
+   * check, or when the detailed check cannot be had (untrusted, closed, failed).
+   */
+  async detailedOutcome(uri: string, objective: string): Promise<PairOutcome | null> {
+    const state = this.documents.get(uri);
+    if (!state || !this.outcome(uri, objective) || !this.host.trusted()) return null;
+    try {
+      const options = { ...checkOptions(this.host.settings()), plots: true };
+      const check = await checkDocument(state.text, state.fileName, this.host.runner, options, undefined, { onlyObjective: objective, ...this.host.workspace?.(state.fileName) });
+      return check.pairs.find((p) => p.pair.objective.name === objective) ?? null;
+    } catch (error) {
+      this.host.log(`the report's check of ${objective} failed: ${error instanceof Error ? error.message : String(error)}`);
+      return null;
+    }
+  }
+
   isChecking(uri: string): boolean {
     return this.documents.get(uri)?.state === 'checking';
   }

@@ -171,8 +171,9 @@ export function startServer(connection: Connection): void {
     }));
   });
 
-  connection.onRequest(methods.pairReport, ({ uri, objective }: PairReportParams): PairReportResult | null => {
-    const outcome = checks.outcome(uri, objective);
+  connection.onRequest(methods.pairReport, async ({ uri, objective }: PairReportParams): Promise<PairReportResult | null> => {
+    // The plots need data the everyday check leaves out; without it the last verdict still shows.
+    const outcome = (await checks.detailedOutcome(uri, objective)) ?? checks.outcome(uri, objective);
     if (!outcome) return null;
     const current = settings.current;
     return {
