@@ -1,10 +1,11 @@
-// npm run bench: accuracy, smoothness, real code, scale and editor latency, then the report files.
-// Usage: node bench/run.mjs [accuracy] [smoothness] [realcode] [scale] [latency]   (default: all)
+// npm run bench: accuracy, smoothness, real code, calls and budget, scale and editor latency, then the report files.
+// Usage: node bench/run.mjs [accuracy] [smoothness] [realcode] [budget] [scale] [latency]   (default: all)
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { repoRoot } from '../test/support/paths';
 import { runAccuracy } from './accuracy';
+import { runBudget } from './budget';
 import { runLatency } from './latency';
 import { runRealCode } from './realCode';
 import { latestJson, markdown, scaleSvg, type BenchResults } from './report';
@@ -32,6 +33,7 @@ async function main(): Promise<void> {
     accuracy: null,
     smoothness: null,
     realCode: null,
+    budget: null,
     scale: null,
     latency: null,
   };
@@ -47,6 +49,10 @@ async function main(): Promise<void> {
   if (wants('realcode')) {
     log('real code…');
     results.realCode = await runRealCode(log);
+  }
+  if (wants('budget')) {
+    log('calls and budget…');
+    results.budget = runBudget(log);
   }
   if (wants('scale')) {
     log('scale…');

@@ -1,6 +1,7 @@
 // Turns the measured figures into the console table, bench/results/latest.json,
 // bench/results/latest.md (the README's "Measured" tables) and docs/scale.svg.
 import type { AccuracyResult, CheckerTally } from './accuracy';
+import type { BudgetResult } from './budget';
 import type { LatencyResult } from './latency';
 import type { RealCodeResult, RealCodeRow } from './realCode';
 import type { ScaleRow } from './scale';
@@ -18,6 +19,7 @@ export interface BenchResults {
   accuracy: (Pick<AccuracyResult, 'slopecheck' | 'baseline'> & { details: Omit<AccuracyResult, 'slopecheck' | 'baseline'> }) | null;
   smoothness: SmoothnessResult | null;
   realCode: RealCodeResult | null;
+  budget: BudgetResult | null;
   scale: ScaleRow[] | null;
   latency: (Omit<Partial<LatencyResult>, 'medianMs' | 'p95Ms' | 'firstCheckMs' | 'rssMb'> & { medianMs: number | null; p95Ms: number | null; firstCheckMs: number | null; rssMb: number | null; note?: string }) | null;
 }
@@ -43,13 +45,14 @@ function accuracyTable(s: CheckerTally, b: CheckerTally): string {
   return table(['', 'Slopecheck', 'forward differences, tol 1e-4'], rows);
 }
 
-/** Each target of the product against what this run measured; a section not run is left out. */
 /**
  * Save-to-diagnostics median with one sandbox process reused for every file, measured with this
  * bench's paced saves on the 2-core bench machine (2026-12-02) at the last commit before each
  * check got a fresh process (e8f5172). The containment work may add at most 20 ms to it.
  */
 const reusedProcessMedianMs = 43.5;
+
+/** Each target of the product against what this run measured; a section not run is left out. */
 
 export function targetsTable(results: BenchResults): string {
   const rows: Array<[string, string, boolean]> = [];
@@ -70,6 +73,17 @@ export function targetsTable(results: BenchResults): string {
       'inconclusive on smooth correct cases under 1 %, besides components whose exact derivative lies within its error bound',
       `${pct(unforced.length, s.correctCases)} (${s.inconclusiveOnCorrect - unforced.length} more with such components)`,
       unforced.length < 0.01 * s.correctCases,
+    ]);
+  }
+  const bu = results.budget;
+  if (bu) {
+    const upTo64 = bu.calls.filter((r) => r.n <= 64);
+    rows.push(['calls of a whole check of a correct pair ≤ 2(4(2n + 1) + 40) up to n = 64', upTo64.map((r) => `${r.calls} of ${r.target} at n = ${r.n}`).join(', '), upTo64.every((r) => r.calls <= r.target)]);
+    const fifty = bu.budget.filter((r) => r.n === 20 && r.costMs === 50);
+    rows.push([
+      'gradient verdict of a 50 ms objective at n = 20 within the default budget',
+      fifty.map((r) => `${r.gradient}: ${r.status} in ${r.verdictMs} ms`).join('; '),
+      fifty.every((r) => (r.gradient === 'correct' ? r.status === 'pass' : r.status === 'fail')),
     ]);
   }
   const sm = results.smoothness;
@@ -161,6 +175,14 @@ export function markdown(results: BenchResults): string {
     if (r.problems.length > 0) parts.push('Disagreements with the truth:', table(['file', 'what'], r.problems.map((p) => [p.file, p.problem.replace(/\|/g, '/')])));
     parts.push(`The CLI checked the ${r.untagged.files + r.tagged.files} files in ${fmt(r.seconds, 3)} s.`);
   }
+  if (results.budget) {
+    const b = results.budget;
+    parts.push('### Calls and time budget', 'Calls of a whole check of a correct pair (no learning rate, no plots), beside the textbook central-difference check and the target for a whole check, twice 4(2n + 1) + 40 up to n = 64:',
+      table(['n', 'calls (f + ∇f)', 'textbook 2n + 1', 'target'], b.calls.map((r) => [r.n, r.calls, r.textbook, r.target])));
+    parts.push(`Time to a verdict under the default budget of ${b.budgetMs} ms, modelled as calls × cost per call (in-process, module loading and sandbox overhead left out):`,
+      table(['n', 'ms per call', 'gradient', 'verdict', 'calls', 'time (ms)', 'probes checked', 'cut short by the budget'],
+        b.budget.map((r) => [r.n, r.costMs, r.gradient, r.status, r.calls, r.verdictMs, r.probesChecked, r.cutShort ? 'yes' : 'no'])));
+  }
   if (results.scale) {
     parts.push('### Scale (real sandbox, one wrong component)', table(['n', 'evaluations (f + ∇f)', 'wall time (s)', 'one f (ms)', 'one ∇f (ms)', 'overhead ratio', 'verdict', 'components named'],
       results.scale.map((r) => [r.n, `${r.evaluations} (${r.objectiveEvaluations} + ${r.gradientEvaluations})`, fmt(r.seconds, 3), fmt(r.objectiveMs, 3), fmt(r.gradientMs, 3), fmt(r.overheadRatio, 3), r.status, r.wrongComponents.join(', ')])));
@@ -220,6 +242,7 @@ export function latestJson(results: BenchResults): object {
     accuracy: results.accuracy && { slopecheck: strip(results.accuracy.slopecheck), baseline: strip(results.accuracy.baseline), details: results.accuracy.details },
     smoothness: results.smoothness,
     realCode: results.realCode,
+    budget: results.budget,
     scale: results.scale,
     latency: results.latency,
   };
