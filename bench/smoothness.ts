@@ -13,6 +13,9 @@ export interface SmoothnessRow {
   lambdaMax: number;
   lambdaMin: number;
   lipschitz: number;
+  /** The Lanczos estimate of λmax itself, before L̂ is widened by an unconverged residual. */
+  ritzMax: number;
+  relErrRitz: number;
   mu: number;
   relErrL: number;
   relErrMu: number;
@@ -34,6 +37,9 @@ export interface SmoothnessResult {
   testSet: SmoothnessRow[];
   rates: RateRow[];
   quadraticMaxRelErrL: number;
+  quadraticMaxRelErrRitz: number;
+  /** Largest (λmax − L̂)/λmax over the quadratics: how far L̂ fell short of λmax, if ever. */
+  quadraticMaxShortfallL: number;
   quadraticMaxRelErrMu: number;
   testSetMaxRelErrL: number;
   maxHessianVectorProducts: number;
@@ -60,11 +66,14 @@ function compare(label: string, problem: TestProblem, point: number[]): Smoothne
   const estimate = report.smoothness;
   const lipschitz = estimate ? estimate.lipschitz : NaN;
   const mu = estimate ? estimate.mu : NaN;
+  const ritzMax = report.probes[0]?.smoothness?.lambdaMax ?? NaN;
   return {
     label,
     n: point.length,
     ...exact,
     lipschitz,
+    ritzMax,
+    relErrRitz: Math.abs(ritzMax - exact.lambdaMax) / Math.abs(exact.lambdaMax),
     mu,
     relErrL: Math.abs(lipschitz - exact.lambdaMax) / Math.abs(exact.lambdaMax),
     relErrMu: Math.abs(mu - exact.lambdaMin) / Math.abs(exact.lambdaMin),
@@ -118,6 +127,8 @@ export function runSmoothness(log: (line: string) => void): SmoothnessResult {
     testSet,
     rates,
     quadraticMaxRelErrL: max(quadratics.map((r) => r.relErrL)),
+    quadraticMaxRelErrRitz: max(quadratics.map((r) => r.relErrRitz)),
+    quadraticMaxShortfallL: max(quadratics.map((r) => (r.lambdaMax - r.lipschitz) / r.lambdaMax)),
     quadraticMaxRelErrMu: max(quadratics.map((r) => r.relErrMu)),
     testSetMaxRelErrL: max(testSet.map((r) => r.relErrL)),
     maxHessianVectorProducts: Math.max(...[...quadratics, ...testSet].map((r) => r.hessianVectorProducts)),
