@@ -15,15 +15,22 @@ function agrees(analytic: number, expected: number, errorBound: number, weight: 
   return Math.abs(analytic - expected) <= 2 * errorBound * weight + shapeTolerance * Math.max(Math.abs(analytic), Math.abs(expected));
 }
 
+/** Factors are shown as p/q with q up to this: ½, ⅓, ¾ are the slips people make (common practice). */
+const largestDenominator = 4;
+/** A ratio within this share of p/q reads as p/q, and a ratio this close to 1 is no factor at all. */
+const ratioTolerance = 1e-3;
+/** Permutations are searched among at most this many wrong components: the assignment search is exponential. */
+const largestPermutation = 8;
+
 /** Nearest p/q with q ≤ 4 when within 0.1%, so 1.9999 reads as 2 and 0.3334 as 1/3. */
 export function roundFactor(factor: number): number {
   let best = Number(factor.toPrecision(4));
   let bestDistance = Number.POSITIVE_INFINITY;
-  for (let q = 1; q <= 4; q++) {
+  for (let q = 1; q <= largestDenominator; q++) {
     const p = Math.round(factor * q);
     if (p === 0) continue;
     const distance = Math.abs(p / q - factor);
-    if (distance <= 1e-3 * Math.abs(factor) && distance < bestDistance) {
+    if (distance <= ratioTolerance * Math.abs(factor) && distance < bestDistance) {
       best = p / q;
       bestDistance = distance;
     }
@@ -42,7 +49,7 @@ function constantRatio(mismatched: Pair[], others: Pair[]): Diagnosis | null {
   const ratios = mismatched.filter((p) => p.numerical !== 0).map((p) => p.analytic / p.numerical);
   if (ratios.length === 0 || ratios.length < mismatched.length) return null;
   const ratio = median(ratios);
-  if (!Number.isFinite(ratio) || Math.abs(ratio - 1) < 1e-3) return null;
+  if (!Number.isFinite(ratio) || Math.abs(ratio - 1) < ratioTolerance) return null;
   const all = [...mismatched, ...others];
   if (!all.every((p) => agrees(p.analytic, ratio * p.numerical, p.errorBound, Math.abs(ratio)))) return null;
   const rounded = roundFactor(ratio);
@@ -51,7 +58,7 @@ function constantRatio(mismatched: Pair[], others: Pair[]): Diagnosis | null {
 
 /** A permutation π of the mismatched components with analytic_i ≈ numerical_π(i). */
 function findPermutation(mismatched: ComponentCheck[]): Array<[number, number]> | null {
-  if (mismatched.length < 2 || mismatched.length > 8) return null;
+  if (mismatched.length < 2 || mismatched.length > largestPermutation) return null;
   const candidates = mismatched.map((c) => mismatched.filter((d) => d !== c && agrees(c.analytic, d.numerical, d.errorBound, 1)).map((d) => d.index));
   const image = new Map<number, number>();
   const used = new Set<number>();

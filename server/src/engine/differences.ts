@@ -49,6 +49,9 @@ export function richardson(coarse: number, fine: number, order = 2): number {
 // Noise in an extrapolated difference: D(h) carries ≤ 3σ·√2/(2h) at three standard
 // deviations and extrapolation roughly doubles it (sum of |weights| → 2).
 const noiseMultiplier = 6;
+// A first step where f is not finite is shrunk this much, this many times (to 16⁻⁴ of it) before giving up.
+const domainShrink = 16;
+const domainRetries = 4;
 // Ridders' stopping factor: quit once the diagonal grows this much past the best error.
 const growthStop = 2;
 // The error estimate of a tableau is itself an estimate; this margin makes it a bound.
@@ -66,8 +69,8 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
   // A first step outside f's domain (NaN, ±Infinity) is shrunk, not reported.
   let plus = phi(firstStep);
   let minus = phi(-firstStep);
-  for (let tries = 0; tries < 4 && !(Number.isFinite(plus) && Number.isFinite(minus)); tries++) {
-    firstStep /= 16;
+  for (let tries = 0; tries < domainRetries && !(Number.isFinite(plus) && Number.isFinite(minus)); tries++) {
+    firstStep /= domainShrink;
     plus = phi(firstStep);
     minus = phi(-firstStep);
   }
@@ -139,6 +142,8 @@ export function confirmDerivative(phi: (t: number) => number, phi0: number, firs
   return { ...first, errorBound: Math.max(first.errorBound, second.errorBound) + gap, kink, resolved, flat };
 }
 
+// A suspected kink is confirmed at steps this many times below the finest of the tableau.
+const kinkConfirmingShrinks = [64, 512];
 // Second differences above this many noise levels are signal, not noise.
 const signalOverNoise = 100;
 
@@ -164,7 +169,7 @@ function looksKinked(phi: (t: number) => number, phi0: number, steps: number[], 
   if (last < 3) return false;
   const aboveNoise = (gap: number) => gap > signalOverNoise * noise;
   const slopeGap = (i: number) => gaps[i] / steps[i];
-  for (const shrink of [64, 512]) {
+  for (const shrink of kinkConfirmingShrinks) {
     const h = steps[last] / shrink;
     const plus = phi(h);
     const minus = phi(-h);

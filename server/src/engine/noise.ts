@@ -17,13 +17,20 @@ export interface NoiseTableResult {
  * where three consecutive σ_k agree within a factor 4 and the differences
  * change sign (the smooth part no longer dominates).
  */
+// Moré & Wild: a spread over 10% of |f| means the points sample f's shape, not its noise.
+const shapeSpread = 0.1;
+// Three consecutive noise levels within this factor of each other are taken to agree (Moré & Wild).
+const levelAgreement = 4;
+// When no table settles, the noise is taken as this share of |f|: a cautious guess that only
+// widens the error bounds (common practice).
+const unknownRelativeNoise = 1e-8;
+
 export function noiseFromTable(values: ArrayLike<number>): NoiseTableResult {
   const count = values.length;
   let diffs = Array.from(values);
   const fMin = Math.min(...diffs);
   const fMax = Math.max(...diffs);
-  // Moré & Wild: a spread over 10% of |f| means the points sample f's shape, not its noise.
-  if ((fMax - fMin) > 0.1 * Math.max(Math.abs(fMax), Math.abs(fMin))) return { verdict: 'step-too-large', noise: 0, levels: [] };
+  if ((fMax - fMin) > shapeSpread * Math.max(Math.abs(fMax), Math.abs(fMin))) return { verdict: 'step-too-large', noise: 0, levels: [] };
   const levels: number[] = [];
   const signChanges: boolean[] = [];
   let gamma = 1;
@@ -39,7 +46,7 @@ export function noiseFromTable(values: ArrayLike<number>): NoiseTableResult {
   }
   for (let k = 0; k + 2 < levels.length; k++) {
     const window = levels.slice(k, k + 3);
-    if (Math.max(...window) <= 4 * Math.min(...window) && signChanges[k]) return { verdict: 'found', noise: levels[k], levels };
+    if (Math.max(...window) <= levelAgreement * Math.min(...window) && signChanges[k]) return { verdict: 'found', noise: levels[k], levels };
   }
   return { verdict: 'step-too-large', noise: 0, levels };
 }
@@ -82,7 +89,7 @@ export function estimateNoise(phi: (t: number) => number, f0: number, spacing = 
   // Undetected: too-small tables mean f is flat at rounding level; otherwise the
   // smallest σ_k is an overestimate, which only makes the check more cautious.
   if (Number.isFinite(fallback)) return Math.max(fallback, floor);
-  return tooSmall ? floor : Math.max(floor, Math.abs(f0) * 1e-8);
+  return tooSmall ? floor : Math.max(floor, Math.abs(f0) * unknownRelativeNoise);
 }
 
 /** Exactly representable in float32 yet not a short binary fraction: almost surely a float32 result. */

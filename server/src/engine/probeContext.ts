@@ -38,10 +38,20 @@ export function roundoffFloor(roundoffScale: number, size: number, unit: number)
   return roundoffUlps * unit * Math.max(roundoffScale, size);
 }
 
-/** Initial difference step relative to the coordinate scale, from the relative noise ε_r: ~ε_r^(1/5), the optimum for an O(h⁴) extrapolated difference. */
+/**
+ * The first step of a difference tableau, relative to the coordinate scale: 4·ε_r^(1/5) from the
+ * relative noise ε_r, the optimum order for an O(h⁴) extrapolated difference (the tableau then
+ * halves it), kept within [10⁻³, 0.05] so neither rounding nor curvature dominates the first
+ * rows (common practice).
+ */
+const initialStepFactor = 4;
+const extrapolatedOrder = 4;
+const smallestInitialStep = 1e-3;
+const largestInitialStep = 0.05;
+
 export function initialRelativeStep(context: ProbeContext): number {
   const relativeNoise = context.noise / Math.max(Math.abs(context.value), context.noise, Number.MIN_VALUE);
-  return Math.min(0.05, Math.max(1e-3, 4 * Math.pow(relativeNoise, 0.2)));
+  return Math.min(largestInitialStep, Math.max(smallestInitialStep, initialStepFactor * Math.pow(relativeNoise, 1 / (extrapolatedOrder + 1))));
 }
 
 /** What a derivative is judged against: the rounding its analytic value may carry, and its size (decision.ts). */
