@@ -160,8 +160,9 @@ describe('eigenvalue plot on a quadratic with known Hessian', () => {
 
   test('Ritz values are drawn per probe on a log axis, L̂ and μ̂ lines at their values', () => {
     const dots = byClass(root, 'ritz').filter((e) => e.name === 'circle');
-    assert.ok(dots.length >= 2 * 3, `${dots.length} Ritz values`);
-    assert.deepEqual([...new Set(dots.map((d) => d.attributes['data-probe']))], ['0', '1']);
+    assert.ok(dots.length >= 3, `${dots.length} Ritz values`);
+    // The curvature is measured at the first probe only.
+    assert.deepEqual([...new Set(dots.map((d) => d.attributes['data-probe']))], ['0']);
     assert.ok(ticks(root, 'y').every((t) => isPowerOfTen(t.value)), 'log axis: eigenvalues span two decades');
     const [lipschitz] = byClass(root, 'lipschitz-line').filter((e) => e.name === 'g');
     near(Number(byName(lipschitz, 'line')[0].attributes.y1), expectedPosition(root, 'y', report.smoothness!.lipschitz, true));

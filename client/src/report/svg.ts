@@ -69,7 +69,8 @@ export function logAxis(values: number[], maxTicks = 9): Axis {
 export function prefersLogScale(values: number[]): boolean {
   const finite = values.filter(isFiniteNumber);
   if (finite.length < 2 || finite.some((v) => v <= 0)) return false;
-  return Math.max(...finite) / Math.min(...finite) >= 100;
+  // Two decades, give or take the rounding of estimates that sit on them (1 and 99.9999999).
+  return Math.max(...finite) / Math.min(...finite) >= 100 * (1 - 1e-6);
 }
 
 /** Maps a data value to an SVG coordinate. */

@@ -5,7 +5,7 @@ import { formatBound, formatList } from './format';
 import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
 import { createRandom } from './random';
 import { probesAroundStart } from './startProbes';
-import { combineSmoothness, probeSmoothness, type ProbeSmoothness } from './smoothness';
+import { combineSmoothness, probeSmoothness } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
 import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type UndecidedReason, type Vector } from './types';
 import { BudgetSpent, CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
@@ -43,7 +43,7 @@ export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan
     const points = probePoints(probes, plan, options, report);
     if (points !== null) {
       calls = createUserCalls(fns, points[0].length, { clock: () => readClock(clock), endsAt: plan.endsAt ?? null });
-      runChecks(calls, points, probes, plan, options, report);
+      runChecks(calls, points, plan, options, report);
     }
   } catch (err) {
     report.status = 'error';
@@ -106,7 +106,7 @@ function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, 
 /** Another probe is started only when this many times the last probe's time is left in the budget. */
 const probeTimeMargin = 1.2;
 
-function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): void {
+function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
   // The gradient verdict first, probe by probe while it keeps passing: a mismatch decides it.
   const outcomes: ProbeOutcome[] = [];
   let cutShort = false;
@@ -181,7 +181,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][],
   // estimated when no mismatch was found, and only at probes where f is smooth.
   if (failing) return;
   try {
-    estimateSmoothness(calls, outcomes, probes, plan, options, report);
+    estimateSmoothness(calls, outcomes, plan, options, report);
   } catch (err) {
     if (!(err instanceof BudgetSpent)) throw err;
     report.smoothness = null;
@@ -190,33 +190,26 @@ function runChecks(calls: UserCalls, points: Float64Array[], probes: number[][],
   }
 }
 
-/** L̂ and the learning-rate verdict, once the gradient is known to be right. */
-function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): void {
-  const smooth = outcomes.filter((o) => !o.kink);
-  const perProbe: ProbeSmoothness[] = [];
-  for (const outcome of smooth) {
-    const estimate = probeSmoothness(outcome.context, createRandom(options.seed, streams.smoothness + outcome.context.probeIndex), options.lanczosSteps);
-    outcome.report.smoothness = estimate;
-    if (estimate) perProbe.push(estimate);
-  }
-  // From the user's own start, the verdict is about where their descent begins: probe 1.
-  // The perturbed probes keep their own estimates in their probe reports.
-  const fromStart = Array.isArray(probes) && probes.length === 0 && Array.isArray(plan.startPoint) && smooth[0]?.context.probeIndex === 0 && smooth[0].report.smoothness;
-  report.smoothness = combineSmoothness(fromStart ? [smooth[0].report.smoothness as ProbeSmoothness] : perProbe);
+/**
+ * L̂ and the learning-rate verdict, once the gradient is known to be right: at the first probe
+ * where f is smooth, which is the user's start when there is one (where their descent begins).
+ * The curvature costs two gradient calls per Lanczos step, so it is measured at one probe only.
+ */
+function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
+  const first = outcomes.find((o) => !o.kink);
+  if (!first) return;
+  const estimate = probeSmoothness(first.context, createRandom(options.seed, streams.smoothness + first.context.probeIndex), options.lanczosSteps);
+  first.report.smoothness = estimate;
+  report.smoothness = estimate ? combineSmoothness([estimate]) : null;
   if (!report.smoothness) return;
   const declared = plan.learningRate;
-  const declaredRuns = [];
-  for (const outcome of fromStart ? [smooth[0]] : smooth) {
-    const { x, value, probeIndex } = outcome.context;
-    const run = (rate: number, label: 'declared' | 'safe' | 'limit') => descend(calls, x, value, rate, options.descentSteps, label, probeIndex);
-    if (declared) {
-      const declaredRun = run(declared.value, 'declared');
-      declaredRuns.push(declaredRun);
-      outcome.report.descent.push(declaredRun);
-    }
-    if (!options.plots) continue;
-    outcome.report.descent.push(run(report.smoothness.safeStep, 'safe'));
-    if (report.smoothness.divergenceStep !== null) outcome.report.descent.push(run(report.smoothness.divergenceStep, 'limit'));
+  const { x, value, probeIndex } = first.context;
+  const run = (rate: number, label: 'declared' | 'safe' | 'limit') => descend(calls, x, value, rate, options.descentSteps, label, probeIndex);
+  const declaredRuns = declared ? [run(declared.value, 'declared')] : [];
+  first.report.descent.push(...declaredRuns);
+  if (options.plots) {
+    first.report.descent.push(run(report.smoothness.safeStep, 'safe'));
+    if (report.smoothness.divergenceStep !== null) first.report.descent.push(run(report.smoothness.divergenceStep, 'limit'));
   }
   if (declared) {
     const review = reviewLearningRate(declared, report.smoothness, declaredRuns);

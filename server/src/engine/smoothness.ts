@@ -79,7 +79,7 @@ const unconvergedShare = 1e-6;
 /**
  * L̂ = largest of |λmax|, |λmin| (each widened by its Lanczos residual when unconverged: the Ritz
  * value then lies below the extreme eigenvalue by up to about that much) and the secant slopes,
- * over all probes: the safe step 1/L̂ comes from it. The divergence threshold 2/λ⁺ comes from the
+ * over the probes given (the check measures one): the safe step 1/L̂ comes from it. The divergence threshold 2/λ⁺ comes from the
  * largest positive curvature alone, unwidened: a Ritz value lies inside the spectrum, so a rate at
  * or above 2/λ⁺ diverges on the quadratic model, while negative curvature never makes it diverge.
  * μ̂ = smallest λmin.
