@@ -9,7 +9,7 @@ import { defaultSettings } from '../server/src/shared/settings';
 
 export interface CallsRow {
   n: number;
-  /** f + ∇f calls of a whole check of a correct pair, no learning rate, no plots. */
+  /** f + ∇f calls of a whole check of a correct pair, with L̂ at one probe, no learning rate, no plots. */
   calls: number;
   textbook: number;
   /** The target for a whole check: twice 4(2n + 1) + 40 up to n = 64, flat above. */
@@ -38,7 +38,7 @@ export interface BudgetResult {
 const reportReserveMs = 300;
 
 /** f = Σ (i + 1)·cosh(0.3·xᵢ), ∇f = 0.3(i + 1)·sinh(0.3·xᵢ) (elementary calculus); `wrong` flips one component. */
-function run(n: number, costMs: number, wrong: boolean, endsAt: number | null): { report: PairReport; clockMs: number } {
+function run(n: number, costMs: number, wrong: boolean, endsAt: number | null, smoothness = false): { report: PairReport; clockMs: number } {
   let clock = 0;
   const objective = (x: ArrayLike<number>) => {
     clock += costMs;
@@ -50,7 +50,7 @@ function run(n: number, costMs: number, wrong: boolean, endsAt: number | null): 
     clock += costMs;
     return Array.from({ length: n }, (_, i) => (wrong && i === 1 ? -1 : 1) * 0.3 * (i + 1) * Math.sinh(0.3 * x[i]));
   };
-  const report = checkPair({ objective, gradient, makeVector: (v) => Array.from(v) }, [], { dimension: n, learningRate: null, options: defaultCheckOptions, endsAt }, () => clock);
+  const report = checkPair({ objective, gradient, makeVector: (v) => Array.from(v) }, [], { dimension: n, learningRate: null, options: { ...defaultCheckOptions, smoothness }, endsAt }, () => clock);
   return { report, clockMs: clock };
 }
 
@@ -58,7 +58,7 @@ const callsOf = (report: PairReport) => report.evaluations.objective + report.ev
 
 export function runBudget(log: (line: string) => void): BudgetResult {
   const calls = [2, 5, 10, 20, 50, 64, 100, 1000].map((n) => {
-    const { report } = run(n, 0, false, null);
+    const { report } = run(n, 0, false, null, true);
     const target = 2 * (4 * (2 * Math.min(n, 64) + 1) + 40);
     return { n, calls: callsOf(report), textbook: 2 * n + 1, target };
   });

@@ -179,7 +179,7 @@ export function markdown(results: BenchResults): string {
   }
   if (results.budget) {
     const b = results.budget;
-    parts.push('### Calls and time budget', 'Calls of a whole check of a correct pair (no learning rate, no plots), beside the textbook central-difference check and the target for a whole check, twice 4(2n + 1) + 40 up to n = 64:',
+    parts.push('### Calls and time budget', 'Calls of a whole check of a correct pair (L̂ at one probe, no learning rate, no plots), beside the textbook central-difference check and the target for a whole check, twice 4(2n + 1) + 40 up to n = 64:',
       table(['n', 'calls (f + ∇f)', 'textbook 2n + 1', 'target'], b.calls.map((r) => [r.n, r.calls, r.textbook, r.target])));
     parts.push(`Time to a verdict under the default budget of ${b.budgetMs} ms, modelled as calls × cost per call (in-process, module loading and sandbox overhead left out):`,
       table(['n', 'ms per call', 'gradient', 'verdict', 'calls', 'time (ms)', 'probes checked', 'cut short by the budget'],

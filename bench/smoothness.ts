@@ -51,7 +51,7 @@ function check(problem: TestProblem, point: number[], learningRate: number | nul
   return checkPair(
     { objective: (x) => problem.f(x), gradient: (x) => problem.g(x), makeVector: makeFloat64 },
     [point],
-    { dimension: null, learningRate: learningRate === null ? null : { name: 'learningRate', value: learningRate }, options: { ...defaultCheckOptions } },
+    { dimension: null, learningRate: learningRate === null ? null : { name: 'learningRate', value: learningRate }, options: { ...defaultCheckOptions, smoothness: true } },
   );
 }
 

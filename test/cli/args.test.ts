@@ -3,7 +3,8 @@ import { test } from 'node:test';
 import { parseArguments, UsageError } from '../../server/src/cli/args';
 
 test('defaults: text format, seed 1, 10000 ms', () => {
-  assert.deepEqual(parseArguments(['a.ts']), { format: 'text', seed: 1, timeoutMs: 10000, paths: ['a.ts'] });
+  assert.deepEqual(parseArguments(['a.ts']), { format: 'text', seed: 1, timeoutMs: 10000, smoothness: false, paths: ['a.ts'] });
+  assert.equal((parseArguments(['--smoothness', 'a.ts']) as { smoothness: boolean }).smoothness, true);
 });
 
 test('flags with separate and inline values', () => {
@@ -11,6 +12,7 @@ test('flags with separate and inline values', () => {
     format: 'sarif',
     seed: 7,
     timeoutMs: 250,
+    smoothness: false,
     paths: ['src', 'b.js'],
   });
 });

@@ -150,7 +150,7 @@ describe('eigenvalue plot on a quadratic with known Hessian', () => {
       [1, -2, 0.5],
       [0.3, 0.7, -1.1],
     ],
-    { dimension: null, learningRate: null, options: { ...defaultCheckOptions } },
+    { dimension: null, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } },
   );
   const root = wellFormed(eigenvaluePlot(report.probes, report.smoothness), 'eigenvalues');
 

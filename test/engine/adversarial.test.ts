@@ -196,7 +196,18 @@ describe('a time budget', () => {
     const { report } = check(3, null, 1e9);
     assert.equal(report.status, 'pass');
     assert.deepEqual(budgetMessages(report), []);
-    assert.ok(report.smoothness !== null);
+    assert.equal(report.probes.length, 3);
+  });
+
+  test('without a learning rate the curvature is left out unless asked for: fewer calls for the same verdict', () => {
+    const plain = check(3, null, 1e9).report;
+    assert.equal(plain.smoothness, null);
+    const { clock, fns } = slowPair(3, null);
+    const asked = checkPair(fns, [], { dimension: 3, learningRate: null, options: { ...defaultCheckOptions, smoothness: true }, endsAt: null }, () => clock.now);
+    assert.equal(asked.status, plain.status);
+    assert.ok(asked.smoothness !== null && asked.smoothness.lipschitz > 0);
+    const calls = (r: PairReport) => r.evaluations.objective + r.evaluations.gradient;
+    assert.ok(calls(plain) < calls(asked), `${calls(plain)} calls against ${calls(asked)}`);
   });
 });
 

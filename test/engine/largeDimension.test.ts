@@ -20,7 +20,7 @@ const gradientWith = (wrong: Map<number, (g: number) => number>) => (x: ArrayLik
 };
 
 function run(n: number, wrong: Map<number, (g: number) => number>): PairReport {
-  return checkPair({ objective, gradient: gradientWith(wrong), makeVector: makeFloat64 }, [], { dimension: n, learningRate: null, options: defaultCheckOptions });
+  return checkPair({ objective, gradient: gradientWith(wrong), makeVector: makeFloat64 }, [], { dimension: n, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
 }
 
 describe('large dimension', () => {
@@ -52,7 +52,7 @@ describe('large dimension', () => {
 
   test('two wrong components are both located, with their true derivatives', () => {
     const x = Array.from({ length: 20000 }, (_, i) => 2 * Math.cos(0.1 * i));
-    const report = checkPair({ objective, gradient: gradientWith(new Map<number, (g: number) => number>([[123, (g) => g + 1], [15000, (g) => -g]])), makeVector: makeFloat64 }, [x], { dimension: null, learningRate: null, options: defaultCheckOptions });
+    const report = checkPair({ objective, gradient: gradientWith(new Map<number, (g: number) => number>([[123, (g) => g + 1], [15000, (g) => -g]])), makeVector: makeFloat64 }, [x], { dimension: null, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
     assert.deepEqual(report.diagnosis, { kind: 'subset', components: [123, 15000] });
     // ∂f/∂x_i = 2·w_i·x_i + cos(x_i), with w_i = (i mod 7) + 1 (by hand).
     const exact = (i: number) => 2 * ((i % 7) + 1) * x[i] + Math.cos(x[i]);
@@ -77,7 +77,7 @@ describe('large dimension', () => {
       for (let i = 0; i < x.length; i += 97) h = Math.sin(1e3 * h + 1e7 * x[i]);
       return objective(x) * (1 + 1e-9 * h);
     };
-    const report = checkPair({ objective: noisy, gradient: gradientWith(new Map([[777, (g) => 3 * g]])), makeVector: makeFloat64 }, [], { dimension: 10000, learningRate: null, options: defaultCheckOptions });
+    const report = checkPair({ objective: noisy, gradient: gradientWith(new Map([[777, (g) => 3 * g]])), makeVector: makeFloat64 }, [], { dimension: 10000, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
     assert.deepEqual(report.diagnosis, { kind: 'subset', components: [777] });
     assert.ok(report.probes.some((p) => p.components.length === 1 && p.components[0].index === 777 && p.components[0].mismatch));
     const located = report.findings.map((f) => /located by (\d+) pooled/.exec(f.message)).find((m) => m !== null)!;
@@ -91,15 +91,15 @@ describe('large dimension', () => {
     const swapped = checkPair(
       { objective, gradient: (x) => { const g = base(x); [g[100], g[900]] = [g[900], g[100]]; return g; }, makeVector: makeFloat64 },
       [Array.from({ length: 1000 }, (_, i) => Math.sin(i))],
-      { dimension: 1000, learningRate: null, options: defaultCheckOptions },
+      { dimension: 1000, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } },
     );
     assert.deepEqual(swapped.diagnosis, { kind: 'permutation', pairs: [[100, 900]] });
   });
 
   test('a whole-gradient sign flip or factor is seen from the directions alone', () => {
-    const flipped = checkPair({ objective, gradient: (x) => Array.from(gradientWith(new Map())(x), (v) => -v), makeVector: makeFloat64 }, [], { dimension: 2000, learningRate: null, options: defaultCheckOptions });
+    const flipped = checkPair({ objective, gradient: (x) => Array.from(gradientWith(new Map())(x), (v) => -v), makeVector: makeFloat64 }, [], { dimension: 2000, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
     assert.deepEqual(flipped.diagnosis, { kind: 'sign' });
-    const halved = checkPair({ objective, gradient: (x) => Array.from(gradientWith(new Map())(x), (v) => v / 2), makeVector: makeFloat64 }, [], { dimension: 2000, learningRate: null, options: defaultCheckOptions });
+    const halved = checkPair({ objective, gradient: (x) => Array.from(gradientWith(new Map())(x), (v) => v / 2), makeVector: makeFloat64 }, [], { dimension: 2000, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
     assert.deepEqual(halved.diagnosis, { kind: 'factor', factor: 0.5 });
   });
 
@@ -124,7 +124,7 @@ test('one wrong component of a float32 objective at n = 5000 is localised, not c
   const gradient = (x: ArrayLike<number>) => Array.from({ length: n }, (_, i) => 2 * (1 + (i % 7)) * x[i] * (i === 1234 ? 3 : 1));
   // The wrong component sits where the objective is steep, so float32 rounding cannot hide it.
   const probe = Array.from({ length: n }, (_, i) => (i === 1234 ? 20 : Math.sin(i + 1)));
-  const report = checkPair({ objective, gradient, makeVector: (v) => Array.from(v) }, [probe], { dimension: null, learningRate: null, options: defaultCheckOptions });
+  const report = checkPair({ objective, gradient, makeVector: (v) => Array.from(v) }, [probe], { dimension: null, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
   assert.equal(report.status, 'fail');
   assert.notEqual(report.diagnosis?.kind, 'factor');
   assert.notEqual(report.diagnosis?.kind, 'sign');

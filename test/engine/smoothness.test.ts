@@ -30,7 +30,7 @@ function quadraticReport(a: number[][], options: Partial<CheckOptions> = {}, pro
   const objective = (x: ArrayLike<number>) => 0.5 * multiply(x).reduce((sum, v, i) => sum + v * x[i], 0);
   const random = createRandom(99);
   const points = probes ?? [Array.from({ length: n }, () => random.normal())];
-  return checkPair({ objective, gradient: multiply, makeVector: makeFloat64 }, points, { dimension: n, learningRate: null, options: { ...defaultCheckOptions, ...options } });
+  return checkPair({ objective, gradient: multiply, makeVector: makeFloat64 }, points, { dimension: n, learningRate: null, options: { ...defaultCheckOptions, smoothness: true, ...options } });
 }
 
 const relative = (estimate: number, exact: number) => Math.abs(estimate - exact) / Math.abs(exact);
@@ -145,7 +145,7 @@ describe('Lanczos with full reorthogonalisation', () => {
 describe('smoothness of the objective near the probes', () => {
   test('Rosenbrock at (1, 1): Hessian [[802, −400], [−400, 200]] (by hand from Rosenbrock 1960)', () => {
     const expected = referenceEigenvalues([[802, -400], [-400, 200]]);
-    const report = checkPair({ objective: rosenbrock.f, gradient: rosenbrock.g, makeVector: makeFloat64 }, [[1, 1]], { dimension: 2, learningRate: null, options: defaultCheckOptions });
+    const report = checkPair({ objective: rosenbrock.f, gradient: rosenbrock.g, makeVector: makeFloat64 }, [[1, 1]], { dimension: 2, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
     const smoothness = report.probes[0].smoothness!;
     assert.ok(relative(smoothness.lambdaMax, expected[1]) < 1e-6, `λmax ${smoothness.lambdaMax} vs ${expected[1]}`);
     assert.ok(relative(smoothness.lambdaMin, expected[0]) < 1e-5, `λmin ${smoothness.lambdaMin} vs ${expected[0]}`);
@@ -217,7 +217,7 @@ describe('smoothness of the objective near the probes', () => {
     };
     const x = new Matrix(rows);
     const bound = Math.max(...referenceEigenvalues(x.transpose().mmul(x).to2DArray())) / (4 * m);
-    const report = checkPair({ objective, gradient, makeVector: makeFloat64 }, [[0, 0, 0, 0, 0], [0.01, -0.01, 0.01, -0.01, 0.01]], { dimension: 5, learningRate: null, options: defaultCheckOptions });
+    const report = checkPair({ objective, gradient, makeVector: makeFloat64 }, [[0, 0, 0, 0, 0], [0.01, -0.01, 0.01, -0.01, 0.01]], { dimension: 5, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
     assert.equal(report.status, 'pass', JSON.stringify(report.findings));
     const lipschitz = report.smoothness!.lipschitz;
     assert.ok(lipschitz <= bound * (1 + 1e-6), `L̂ ${lipschitz} > bound ${bound}`);

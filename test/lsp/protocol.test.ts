@@ -194,6 +194,13 @@ describe('a full client', () => {
     assert.equal(report.line, rangeOf(text, 'salinityCalibration').start.line);
     assert.ok(Math.abs(report.report.smoothness.lipschitz - 7.3565) < 1e-3 * 7.3565, 'L̂ matches expected.json (ml-matrix eigenvalues)');
     assert.equal(report.settings.seed, 1);
+    // A passing pair without a learning rate is checked without its curvature; its hover asks for it.
+    const growth = await client.request<Hover>('textDocument/hover', { textDocument: { uri }, position: rangeOf(text, 'growthCurveValueAndGradient').start });
+    const growthCard = (growth!.contents as { value: string }).value;
+    const growthLipschitz = Number(/L̂ \(local Lipschitz estimate\) \| ([\d.e+-]+) \|/.exec(growthCard)?.[1]);
+    assert.ok(growthLipschitz > 0, growthCard);
+    assert.equal(on('growthCurveValueAndGradient')[0].command!.title, 'gradient matches', 'the lens has no step: the everyday check left the curvature out');
+
     // The report asks for its plot data, which the everyday check leaves out.
     assert.ok(report.report.probes[0].stepStudy.steps.length > 0, 'a step study for the plot');
     assert.deepEqual(report.report.probes[0].descent.map((r: any) => r.label), ['declared', 'safe', 'limit']);

@@ -6,11 +6,13 @@ export interface CliArguments {
   format: OutputFormat;
   seed: number;
   timeoutMs: number;
+  /** Estimate L̂ and the safe step for every passing pair, not only those with a declared learning rate. */
+  smoothness: boolean;
   /** Files and folders to check, as given. */
   paths: string[];
 }
 
-export const usage = `Usage: slopecheck [--format text|json|sarif] [--seed N] [--timeout-ms N] <files or folders...>
+export const usage = `Usage: slopecheck [--format text|json|sarif] [--seed N] [--timeout-ms N] [--smoothness] <files or folders...>
 
 Checks every exported objective/gradient pair in the given .ts and .js files
 (folders are searched recursively, node_modules skipped). Checking a file runs
@@ -18,7 +20,9 @@ its code in a sandbox process.
 
   --format      text (default), json or sarif; json and sarif go to stdout alone
   --seed        seed of the random probes and directions (default 1)
-  --timeout-ms  time limit for checking one pair, in milliseconds (default 10000)
+  --timeout-ms  time budget for checking one pair, in milliseconds (default 10000)
+  --smoothness  estimate L̂ and the safe step 1/L̂ for every passing pair; without it,
+                only pairs with a declared learning rate get them
   --help        show this text
 
 Exit status: 0 no error-level finding, 1 at least one, 2 usage error or unreadable input.`;
@@ -27,7 +31,7 @@ export class UsageError extends Error {}
 
 /** Parses argv (without node and script); throws UsageError with a message fit for the user. */
 export function parseArguments(argv: string[]): CliArguments | 'help' {
-  const result: CliArguments = { format: 'text', seed: 1, timeoutMs: defaultSettings.timeoutMs, paths: [] };
+  const result: CliArguments = { format: 'text', seed: 1, timeoutMs: defaultSettings.timeoutMs, smoothness: false, paths: [] };
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
     const [flag, inlineValue] = arg.startsWith('--') && arg.includes('=') ? [arg.slice(0, arg.indexOf('=')), arg.slice(arg.indexOf('=') + 1)] : [arg, undefined];
@@ -51,6 +55,10 @@ export function parseArguments(argv: string[]): CliArguments | 'help' {
         break;
       case '--timeout-ms':
         result.timeoutMs = integer(flag, value(), 1);
+        break;
+      case '--smoothness':
+        if (inlineValue !== undefined) throw new UsageError('--smoothness takes no value');
+        result.smoothness = true;
         break;
       default:
         if (flag.startsWith('-') && flag !== '-') throw new UsageError(`unknown option ${flag}`);

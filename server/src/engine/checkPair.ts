@@ -193,11 +193,12 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
 /**
  * L̂ and the learning-rate verdict, once the gradient is known to be right: at the first probe
  * where f is smooth, which is the user's start when there is one (where their descent begins).
- * The curvature costs two gradient calls per Lanczos step, so it is measured at one probe only.
+ * The curvature costs two gradient calls per Lanczos step, so it is measured at one probe only,
+ * and only when a learning rate is declared or the caller asks for it (`options.smoothness`).
  */
 function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
   const first = outcomes.find((o) => !o.kink);
-  if (!first) return;
+  if (!first || !(plan.learningRate || options.smoothness || options.plots)) return;
   const estimate = probeSmoothness(first.context, createRandom(options.seed, streams.smoothness + first.context.probeIndex), options.lanczosSteps);
   first.report.smoothness = estimate;
   report.smoothness = estimate ? combineSmoothness([estimate]) : null;

@@ -35,6 +35,11 @@ export interface CheckOptions {
    * 2/λ⁺. They cost calls the verdict does not need, so only the report asks for them.
    */
   plots: boolean;
+  /**
+   * Estimate the curvature (L̂, 1/L̂, 2/λ⁺) even when no learning rate is declared: a hover, the
+   * report or a CLI flag asks for it. Without a rate it costs calls no verdict needs.
+   */
+  smoothness: boolean;
 }
 
 export const defaultCheckOptions: CheckOptions = {
@@ -45,6 +50,7 @@ export const defaultCheckOptions: CheckOptions = {
   lanczosSteps: 40,
   descentSteps: 20,
   plots: false,
+  smoothness: false,
 };
 
 /** What a target checks. Only `gradient` today; Jacobian and Hessian kinds follow. */

@@ -111,16 +111,17 @@ export class DocumentChecks {
   }
 
   /**
-   * The pair's outcome with what only the report's plots need (step study, descent at 1/L̂ and
-   * 2/λ⁺), checked again for the current text: the everyday check leaves them out. The runner's
-   * cache answers when the report is opened again on the same text. Null before the pair's first
-   * check, or when the detailed check cannot be had (untrusted, closed, failed).
+   * The pair's outcome with what the everyday check leaves out, checked again for the current
+   * text: the report's plot data (step study, descent at 1/L̂ and 2/λ⁺), or the curvature of a pair
+   * without a learning rate, which a hover shows. The runner's cache answers when it is asked
+   * again on the same text. Null before the pair's first check, or when the detailed check
+   * cannot be had (untrusted, closed, failed).
    */
-  async detailedOutcome(uri: string, objective: string): Promise<PairOutcome | null> {
+  async detailedOutcome(uri: string, objective: string, wanted: Partial<Pick<CheckOptions, 'plots' | 'smoothness'>> = { plots: true }): Promise<PairOutcome | null> {
     const state = this.documents.get(uri);
     if (!state || !this.outcome(uri, objective) || !this.host.trusted()) return null;
     try {
-      const options = { ...checkOptions(this.host.settings()), plots: true };
+      const options = { ...checkOptions(this.host.settings()), ...wanted };
       const check = await checkDocument(state.text, state.fileName, this.host.runner, options, undefined, { onlyObjective: objective, ...this.host.workspace?.(state.fileName) });
       return check.pairs.find((p) => p.pair.objective.name === objective) ?? null;
     } catch (error) {

@@ -125,12 +125,16 @@ export function startServer(connection: Connection): void {
     discovered.forget(document.uri);
   });
 
-  connection.onHover(({ textDocument, position }) => {
+  connection.onHover(async ({ textDocument, position }) => {
     const document = documents.get(textDocument.uri);
     if (!document) return null;
     const hit = nameAt(pairsOf(document), document.offsetAt(position));
     if (!hit) return null;
-    const outcome = checks.outcome(document.uri, hit.pair.objective.name);
+    let outcome = checks.outcome(document.uri, hit.pair.objective.name);
+    // A passing pair without a learning rate was checked without its curvature: the hover asks for it.
+    if (outcome && outcome.report.status === 'pass' && !outcome.report.smoothness && !hit.pair.learningRate) {
+      outcome = (await checks.detailedOutcome(document.uri, hit.pair.objective.name, { smoothness: true })) ?? outcome;
+    }
     const span = hit.role === 'objective' ? hit.pair.objective.nameSpan : hit.role === 'gradient' ? hit.pair.gradient!.nameSpan : hit.pair.learningRate!.nameSpan;
     return { contents: { kind: 'markdown', value: hoverMarkdown(hit.pair, outcome, checks.isChecking(document.uri)) }, range: toRange(span) };
   });
