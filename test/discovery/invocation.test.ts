@@ -42,6 +42,24 @@ test("a training loop's call supplies the data when its other arguments are modu
   assert.equal(text.slice(pair.recipeSpans.trainX.start, pair.recipeSpans.trainX.end), 'trainX');
 });
 
+test("data handed to the training function are followed to its caller: fit(trainX) calling lossGrad(w, X, trainY)", () => {
+  const text = source(
+    ...data,
+    ...dataPair,
+    'export function fit(X: number[][], rate = 0.1) {',
+    '  const w = [0];',
+    '  for (let k = 0; k < 10; k++) w[0] -= rate * lossGrad(w, X, trainY)[0];',
+    '  return w;',
+    '}',
+    'if (process.argv[1]?.endsWith("fit.ts")) console.log(fit(trainX));',
+  );
+  const pair = onlyPair(discoverPairs(text, 'fit.ts'));
+  assert.deepEqual(pair.plan.recipe.extraArguments, ['trainX', 'trainY']);
+  // The span of a followed value is where the caller passes it.
+  assert.equal(text.slice(pair.recipeSpans.trainX.start, pair.recipeSpans.trainX.end), 'trainX');
+  assert.ok(pair.recipeSpans.trainX.start > text.indexOf('console.log'));
+});
+
 test('member expressions of module-level values are arguments too: mseGrad(w, train.X, train.y)', () => {
   const text = source(
     'const train = { X: [[1]], y: [1] };',

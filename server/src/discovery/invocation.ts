@@ -73,16 +73,17 @@ function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings,
     return null;
   }
 
-  // 2. A call in the file whose other arguments are module-level values (a training loop, a test).
+  // 2. A call in the file whose other arguments are module-level values (a training loop, a test),
+  //    directly or through the parameters of the function around the call.
   for (const callable of pairFunctions(match)) {
     for (const call of callsOf(sourceFile, match.group, callable)) {
       const given = call.arguments.slice(1, 1 + extra.length);
       if (given.some(ts.isSpreadElement)) continue;
-      const texts = given.map((argument) => moduleLevelText(argument, bindings));
-      if (texts.some((text) => text === null)) continue;
-      if (extra.some((_, index) => index >= texts.length && !optional(index))) continue;
-      invocation.extraArguments = texts as string[];
-      given.forEach((argument, index) => (invocation.keySpans[texts[index]!] = spanOfNode(sourceFile, argument)));
+      const values = given.map((argument) => moduleLevelArgument(sourceFile, argument, bindings));
+      if (values.some((value) => value === null)) continue;
+      if (extra.some((_, index) => index >= values.length && !optional(index))) continue;
+      invocation.extraArguments = values.map((value) => value!.text);
+      for (const value of values) invocation.keySpans[value!.text] = spanOfNode(sourceFile, value!.node);
       return null;
     }
   }
@@ -165,14 +166,41 @@ function linkedStarts(sourceFile: ts.SourceFile, bindings: ModuleBindings, match
         if (initial) add(initial);
         // `function fit(start) { let w = start.slice(); … }` called as `fit([5.5, 20])`: the caller's point.
         const source = initial ? copiedFrom(initial) : point;
-        const index = source ? fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === source.text) : -1;
-        if (index >= 0) for (const call of callsOfFunction(sourceFile, fn)) if (call.arguments[index]) add(call.arguments[index]);
+        if (source) for (const passed of passedFor(sourceFile, fn, source)) add(passed);
       }
     } else {
       for (const argument of node.arguments) if (!mentionsPair(argument, match)) add(argument);
     }
   }
   return found;
+}
+
+/**
+ * What the calls in this file pass for `name` when it is a parameter of `fn`: `function fit(run)`
+ * called as `fit(coolingRun)` gives `coolingRun`. Empty when `name` is no parameter of `fn`.
+ */
+function passedFor(sourceFile: ts.SourceFile, fn: ts.SignatureDeclaration, name: ts.Identifier): ts.Expression[] {
+  const index = fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === name.text);
+  if (index < 0) return [];
+  return callsOfFunction(sourceFile, fn).flatMap((call) => (call.arguments[index] ? [call.arguments[index]] : []));
+}
+
+/**
+ * The module-level value an argument of a call stands for: the argument itself, or, when it is a
+ * parameter of the function around the call (`function fit(run) { … grad(w, run) … }`), the first
+ * module-level value a call of that function passes for it (`fit(coolingRun)`).
+ */
+function moduleLevelArgument(sourceFile: ts.SourceFile, argument: ts.Expression, bindings: ModuleBindings): { text: string; node: ts.Node } | null {
+  const text = moduleLevelText(argument, bindings);
+  if (text !== null) return { text, node: argument };
+  const node = unwrapParentheses(argument);
+  const fn = enclosingFunction(node);
+  if (!ts.isIdentifier(node) || !fn) return null;
+  for (const passed of passedFor(sourceFile, fn, node)) {
+    const passedText = moduleLevelText(passed, bindings);
+    if (passedText !== null) return { text: passedText, node: passed };
+  }
+  return null;
 }
 
 /** The name a point is copied from: `start.slice()`, `[...start]`, `Array.from(start)`, `Float64Array.from(start)`, `start`. */

@@ -51,7 +51,11 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
     rows.push([`learning rate \`${rate.name}\` = ${rate.value}`, rateWords[rate.status] + momentum]);
   }
   rows.push(['called as', `\`${describeCall(pair.plan, documentNamespace)}\`${pair.entry ? ` with the data of ${baseName(pair.entry.fileName)}, line ${pair.entry.line}` : ''}`]);
-  if (pair.plan.start !== null && report.probes.length > 0) rows.push(['probe 1', `your start \`${withoutNamespace(pair.plan.start, documentNamespace)}\`; the others perturb it`]);
+  if (pair.plan.start !== null && report.probes.length > 0) {
+    // A mismatch at the start ends the check there: no perturbed probe was run.
+    const others = report.status === 'fail' && report.probes.length === 1 ? 'the check stopped at its mismatch' : 'the others perturb it';
+    rows.push(['probe 1', `your start \`${withoutNamespace(pair.plan.start, documentNamespace)}\`; ${others}`]);
+  }
   if (report.probes.length > 0) rows.push(['probes', describeProbes(report.probes.map((p) => p.point), report.dimension)]);
   rows.push(['work', `${report.evaluations.objective} objective and ${report.evaluations.gradient} gradient evaluations in ${Math.round(report.elapsedMs)} ms`]);
 
