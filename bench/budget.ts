@@ -5,6 +5,7 @@
 // sandbox's own overhead are left out (see the scale and latency sections for those).
 import { checkPair } from '../server/src/engine/checkPair';
 import { defaultCheckOptions, type PairReport } from '../server/src/engine/types';
+import { engineEndsAt } from '../server/src/sandbox/reports';
 import { defaultSettings } from '../server/src/shared/settings';
 
 export interface CallsRow {
@@ -34,8 +35,6 @@ export interface BudgetResult {
   budget: BudgetRow[];
 }
 
-/** What the sandbox keeps back from the budget for the report (sandbox/worker.ts). */
-const reportReserveMs = 300;
 
 /** f = Σ (i + 1)·cosh(0.3·xᵢ), ∇f = 0.3(i + 1)·sinh(0.3·xᵢ) (elementary calculus); `wrong` flips one component. */
 function run(n: number, costMs: number, wrong: boolean, endsAt: number | null, smoothness = false): { report: PairReport; clockMs: number } {
@@ -68,7 +67,7 @@ export function runBudget(log: (line: string) => void): BudgetResult {
   for (const n of [3, 20, 100]) {
     for (const costMs of [10, 50, 200]) {
       for (const wrong of [false, true]) {
-        const { report, clockMs } = run(n, costMs, wrong, budgetMs - reportReserveMs);
+        const { report, clockMs } = run(n, costMs, wrong, engineEndsAt(budgetMs, budgetMs));
         budget.push({
           n, costMs, gradient: wrong ? 'one component wrong' : 'correct', status: report.status, calls: callsOf(report), verdictMs: clockMs,
           probesChecked: report.probes.length, cutShort: report.findings.some((f) => f.code === 'budget-spent'),

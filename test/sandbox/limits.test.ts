@@ -66,11 +66,12 @@ describe('limits beyond the heap cap', () => {
   // Only the Linux wrapper is run here (test above); the macOS one is checked for what it asks of
   // sandbox-exec, and is tried once on the machine itself before it is used (workingNetworkWrapper).
   test('each platform gets its own network wrapper, or none', () => {
-    assert.deepEqual(networkWrapperFor('linux')?.prefix, ['unshare', '--user', '--map-root-user', '--net']);
+    const linux = networkWrapperFor('linux');
+    assert.deepEqual([linux?.command, ...(linux?.options ?? [])], ['unshare', '--user', '--map-root-user', '--net']);
     const mac = networkWrapperFor('darwin');
     assert.equal(mac?.network, 'profile');
-    assert.deepEqual(mac?.prefix.slice(0, 2), ['/usr/bin/sandbox-exec', '-p']);
-    const profile = mac!.prefix[2];
+    assert.deepEqual([mac?.command, mac?.options[0]], ['/usr/bin/sandbox-exec', '-p']);
+    const profile = mac!.options[1];
     for (const rule of ['(deny network-outbound (remote ip))', '(deny network-inbound (local ip))', '(deny network-bind (local ip))']) {
       assert.ok(profile.includes(rule), rule);
     }

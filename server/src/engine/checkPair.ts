@@ -5,7 +5,7 @@ import { formatBound, formatList } from './format';
 import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
 import { createRandom } from './random';
 import { probesAroundStart } from './startProbes';
-import { combineSmoothness, probeSmoothness } from './smoothness';
+import { probeSmoothness, smoothnessOf } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
 import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type UndecidedReason, type Vector } from './types';
 import { BudgetSpent, CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
@@ -112,8 +112,8 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
   let cutShort = false;
   try {
     for (let p = 0; p < points.length; p++) {
-      const callsBefore = calls.counts.objective + calls.counts.gradient;
-      const outcome = checkProbe(calls, points[p], p, options, createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p), true);
+      const callsBefore = calls.made();
+      const outcome = checkProbe(calls, points[p], p, options, createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p));
       outcomes.push(outcome);
       report.probes.push(outcome.report);
       report.findings.push(...outcome.findings);
@@ -123,7 +123,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
         break;
       }
       // Sized to the budget from what this probe cost: a probe that cannot end in time is not begun.
-      const probeMs = (calls.counts.objective + calls.counts.gradient - callsBefore) * calls.meanCallMs();
+      const probeMs = (calls.made() - callsBefore) * calls.meanCallMs();
       if (p + 1 < points.length && calls.remainingMs() < probeTimeMargin * probeMs) {
         cutShort = true;
         break;
@@ -201,7 +201,7 @@ function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], plan: Pa
   if (!first || !(plan.learningRate || options.smoothness || options.plots)) return;
   const estimate = probeSmoothness(first.context, createRandom(options.seed, streams.smoothness + first.context.probeIndex), options.lanczosSteps);
   first.report.smoothness = estimate;
-  report.smoothness = estimate ? combineSmoothness([estimate]) : null;
+  report.smoothness = estimate ? smoothnessOf(estimate) : null;
   if (!report.smoothness) return;
   const declared = plan.learningRate;
   const { x, value, probeIndex } = first.context;
@@ -276,7 +276,7 @@ function stationaryFinding(stationary: ProbeOutcome[], all: boolean): Finding {
 
 /** The check ran out of its time budget: what was left undone, with the figures to size the budget. */
 function budgetFinding(calls: UserCalls, where: string): Finding {
-  const made = calls.counts.objective + calls.counts.gradient;
+  const made = calls.made();
   return {
     code: 'budget-spent',
     severity: 'info',

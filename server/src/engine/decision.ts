@@ -2,7 +2,7 @@
 // it differs, or it is undecided, and then why. Every check (components, directions, pools,
 // single coordinates) and every verdict built on them (a probe's, a pair's) asks here.
 import type { DerivativeEstimate } from './differences';
-import type { ComponentCheck, UndecidedReason } from './types';
+import type { ComponentCheck, DirectionalCheck, UndecidedReason } from './types';
 
 export interface Judgement {
   errorBound: number;
@@ -41,11 +41,16 @@ export function judge(analytic: number, numerical: DerivativeEstimate, roundoff:
   return { ...base, mismatch: false, undecided: 'bound-too-wide' };
 }
 
-/** A component's row in the report, carrying the reason when it got no verdict. */
-export function componentCheckOf(index: number, analytic: number, numerical: number, verdict: Judgement): ComponentCheck {
-  const check: ComponentCheck = { index, analytic, numerical, errorBound: verdict.errorBound, relError: verdict.relError, mismatch: verdict.mismatch };
+/** A direction's row in the report, carrying the reason when it got no verdict. */
+export function directionalCheckOf(analytic: number, numerical: number, verdict: Judgement): DirectionalCheck {
+  const check: DirectionalCheck = { analytic, numerical, errorBound: verdict.errorBound, mismatch: verdict.mismatch };
   if (verdict.undecided) check.undecided = verdict.undecided;
   return check;
+}
+
+/** A component's row in the report: a direction's row with its index and relative error. */
+export function componentCheckOf(index: number, analytic: number, numerical: number, verdict: Judgement): ComponentCheck {
+  return { index, ...directionalCheckOf(analytic, numerical, verdict), relError: verdict.relError };
 }
 
 /** True when the estimate can bound anything: finite, settled as the step shrank, and smooth. */

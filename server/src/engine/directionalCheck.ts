@@ -2,7 +2,7 @@
 // difference along seeded random directions (wrong components are then located
 // by localise.ts).
 import type { DerivativeEstimate } from './differences';
-import { directionalSize, type Judgement } from './decision';
+import { directionalCheckOf, directionalSize, type Judgement } from './decision';
 import { checkDirection, initialRelativeStep, type ProbeContext } from './probeContext';
 import type { Random } from './random';
 import type { DirectionalCheck } from './types';
@@ -58,9 +58,7 @@ export function checkRandomDirections(context: ProbeContext, random: Random, cou
   for (let k = 0; k < count; k++) {
     const direction = rangeDirection(context, random, 0, n);
     const test = testDirection(context, direction, 0, n);
-    const check: DirectionalCheck = { analytic: test.analytic, numerical: test.numerical.value, errorBound: test.verdict.errorBound, mismatch: test.verdict.mismatch };
-    if (test.verdict.undecided) check.undecided = test.verdict.undecided;
-    result.directions.push(check);
+    result.directions.push(directionalCheckOf(test.analytic, test.numerical.value, test.verdict));
     if (test.numerical.kink) result.kinks++;
     if (k === 0) result.firstDirection = { direction, step: test.numerical.step, numerical: test.numerical.value };
   }

@@ -48,7 +48,7 @@ const shownCoordinates = 64;
 // Difference estimates (pooled and coordinate) allowed for locating wrong components at one probe.
 const localisationBudget = 80;
 
-export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number, options: CheckOptions, noiseRandom: Random, directionRandom: Random, localise: boolean): ProbeOutcome {
+export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number, options: CheckOptions, noiseRandom: Random, directionRandom: Random): ProbeOutcome {
   const site: CallSite = { probeIndex, point: 'the probe' };
   const value = calls.objective(x, site);
   if (!Number.isFinite(value)) throw new CheckStopped(makeFinding('non-finite-value', 'objective', `the objective is ${value} at probe ${probeIndex + 1}`, site));
@@ -95,7 +95,7 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
     directional: null,
   };
   if (outcome.report.mode === 'full') runFull(outcome);
-  else runDirectional(outcome, options, directionRandom, localise);
+  else runDirectional(outcome, options, directionRandom);
   return outcome;
 }
 
@@ -127,7 +127,7 @@ function runFull(outcome: ProbeOutcome): void {
   outcome.findings.push(finding);
 }
 
-function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Random, localise: boolean): void {
+function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Random): void {
   const { context, report } = outcome;
   const directional = checkRandomDirections(context, random, options.directionCount);
   outcome.directional = directional;
@@ -147,9 +147,6 @@ function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Ra
   let components: number[] = [];
   if (outcome.diagnosis) {
     text += `: ${describeDiagnosis(outcome.diagnosis)}`;
-  } else if (!localise) {
-    outcome.diagnosis = { kind: 'unknown' };
-    text += ' (wrong components are located at the first failing probe only)';
   } else {
     const found = localiseWrongComponents(context, random, localisationBudget);
     report.components = found.components.map(sanitiseComponent);

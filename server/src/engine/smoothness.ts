@@ -77,48 +77,38 @@ export function probeSmoothness(context: ProbeContext, random: Random, lanczosSt
 const unconvergedShare = 1e-6;
 
 /**
- * L̂ = largest of |λmax|, |λmin| (each widened by its Lanczos residual when unconverged: the Ritz
- * value then lies below the extreme eigenvalue by up to about that much) and the secant slopes,
- * over the probes given (the check measures one): the safe step 1/L̂ comes from it. The divergence threshold 2/λ⁺ comes from the
- * largest positive curvature alone, unwidened: a Ritz value lies inside the spectrum, so a rate at
- * or above 2/λ⁺ diverges on the quadratic model, while negative curvature never makes it diverge.
- * μ̂ = smallest λmin.
+ * The figures of one probe's curvature. L̂ = largest of |λmax|, |λmin| (each widened by its
+ * Lanczos residual when unconverged: the Ritz value then lies below the extreme eigenvalue by up
+ * to about that much) and the secant slope: the safe step 1/L̂ comes from it. The divergence
+ * threshold 2/λ⁺ comes from the largest positive curvature alone, unwidened: a Ritz value lies
+ * inside the spectrum, so a rate at or above 2/λ⁺ diverges on the quadratic model, while negative
+ * curvature never makes it diverge. μ̂ = λmin.
  */
-export function combineSmoothness(perProbe: ProbeSmoothness[]): SmoothnessEstimate | null {
-  if (perProbe.length === 0) return null;
+export function smoothnessOf(s: ProbeSmoothness): SmoothnessEstimate | null {
   let lipschitz = 0;
   let lipschitzResidual: number | undefined;
   let widened = false;
-  let positiveCurvature = 0;
-  let mu = Number.POSITIVE_INFINITY;
-  let muResidual: number | undefined;
-  for (const s of perProbe) {
-    // Each candidate for L̂ carries the residual of its Ritz value; a secant slope has none.
-    for (const [value, residual] of [[Math.abs(s.lambdaMax), s.lambdaMaxResidual], [Math.abs(s.lambdaMin), s.lambdaMinResidual], [s.secantMax, undefined]] as const) {
-      const open = residual !== undefined && residual > unconvergedShare * value ? residual : 0;
-      if (value + open > lipschitz) {
-        lipschitz = value + open;
-        lipschitzResidual = residual;
-        widened = open > 0;
-      }
-    }
-    positiveCurvature = Math.max(positiveCurvature, s.lambdaMax);
-    if (s.lambdaMin < mu) {
-      mu = s.lambdaMin;
-      muResidual = s.lambdaMinResidual;
+  // Each candidate for L̂ carries the residual of its Ritz value; a secant slope has none.
+  for (const [value, residual] of [[Math.abs(s.lambdaMax), s.lambdaMaxResidual], [Math.abs(s.lambdaMin), s.lambdaMinResidual], [s.secantMax, undefined]] as const) {
+    const open = residual !== undefined && residual > unconvergedShare * value ? residual : 0;
+    if (value + open > lipschitz) {
+      lipschitz = value + open;
+      lipschitzResidual = residual;
+      widened = open > 0;
     }
   }
   // No curvature at all (e.g. a linear f): no step size follows from it.
   if (!(lipschitz > 0) || !Number.isFinite(lipschitz)) return null;
+  const mu = s.lambdaMin;
   const estimate: SmoothnessEstimate = {
     lipschitz,
     mu,
     kappa: mu > 0 ? lipschitz / mu : null,
     safeStep: 1 / lipschitz,
-    divergenceStep: positiveCurvature > 0 ? 2 / positiveCurvature : null,
+    divergenceStep: s.lambdaMax > 0 ? 2 / s.lambdaMax : null,
   };
   if (lipschitzResidual !== undefined) estimate.lipschitzResidual = lipschitzResidual;
-  if (muResidual !== undefined) estimate.muResidual = muResidual;
+  if (s.lambdaMinResidual !== undefined) estimate.muResidual = s.lambdaMinResidual;
   if (widened) estimate.widened = true;
   return estimate;
 }

@@ -38,6 +38,8 @@ export interface UserCalls {
   gradient(x: Float64Array, site: CallSite): Float64Array;
   /** Warnings noticed along the way (input mutation), each reported once. */
   readonly warnings: Finding[];
+  /** Calls of the objective and the gradient so far. */
+  made(): number;
   /** Mean clock time of one call so far (objective and gradient together), 0 before any. */
   meanCallMs(): number;
   /** Clock time left in the budget; Infinity without one. */
@@ -47,7 +49,8 @@ export interface UserCalls {
 export function createUserCalls(fns: PairFunctions, dimension: number, budget: CallBudget = { clock: () => 0, endsAt: null }): UserCalls {
   const counts = { objective: 0, gradient: 0 };
   let spentMs = 0;
-  const meanCallMs = () => (counts.objective + counts.gradient > 0 ? spentMs / (counts.objective + counts.gradient) : 0);
+  const made = () => counts.objective + counts.gradient;
+  const meanCallMs = () => (made() > 0 ? spentMs / made() : 0);
   const remainingMs = () => (budget.endsAt === null ? Number.POSITIVE_INFINITY : budget.endsAt - budget.clock());
   const warnings: Finding[] = [];
   const mutationSeen = { objective: false, gradient: false };
@@ -60,10 +63,10 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
       throw stop('runtime-error', which, `could not build the argument vector for the ${which} at ${describeSite(site)}: ${describeThrown(err).text}`, site);
     }
     // A call expected to end past the budget is not started.
-    if (remainingMs() < meanCallMs()) throw new BudgetSpent();
+    const started = budget.clock();
+    if (budget.endsAt !== null && budget.endsAt - started < meanCallMs()) throw new BudgetSpent();
     counts[which]++;
     let result: unknown;
-    const started = budget.clock();
     try {
       result = which === 'objective' ? fns.objective(argument as Float64Array) : fns.gradient(argument as Float64Array);
       spentMs += Math.max(0, budget.clock() - started);
@@ -106,6 +109,7 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
     dimension,
     counts,
     warnings,
+    made,
     meanCallMs,
     remainingMs,
     objective(x, site) {

@@ -37,6 +37,8 @@ interface DocumentState {
   running: AbortController | null;
   finished: Promise<void>;
   typingTimer: NodeJS.Timeout | null;
+  /** Detailed outcomes asked for by hovers and the report, by text version, pair and options; emptied with each new check. */
+  detailed: Map<string, Promise<PairOutcome | null>>;
 }
 
 export class DocumentChecks {
@@ -49,6 +51,7 @@ export class DocumentChecks {
     if (previous) this.cancel(previous);
     const state: DocumentState = {
       uri, fileName, text, version, check: null, state: 'idle', generation: 0, running: null, finished: Promise.resolve(), typingTimer: null,
+      detailed: new Map(),
     };
     this.documents.set(uri, state);
     void this.start(state, false);
@@ -100,6 +103,7 @@ export class DocumentChecks {
     for (const state of this.documents.values()) {
       this.cancel(state);
       state.check = null;
+      state.detailed.clear();
       state.state = 'untrusted';
       this.host.publish(state.uri, null);
       this.host.summary(this.summaryOf(state));
@@ -117,15 +121,30 @@ export class DocumentChecks {
    * again on the same text. Null before the pair's first check, or when the detailed check
    * cannot be had (untrusted, closed, failed).
    */
-  async detailedOutcome(uri: string, objective: string, wanted: Partial<Pick<CheckOptions, 'plots' | 'smoothness'>> = { plots: true }): Promise<PairOutcome | null> {
+  detailedOutcome(uri: string, objective: string, wanted: Partial<Pick<CheckOptions, 'plots' | 'smoothness'>> = { plots: true }): Promise<PairOutcome | null> {
     const state = this.documents.get(uri);
-    if (!state || !this.outcome(uri, objective) || !this.host.trusted()) return null;
+    if (!state || !this.outcome(uri, objective) || !this.host.trusted()) return Promise.resolve(null);
+    // Hovers come far more often than edits: discovery and bundling run once per text and request.
+    const options = { ...checkOptions(this.host.settings()), ...wanted };
+    const key = `${state.version}\0${objective}\0${JSON.stringify(options)}`;
+    let detailed = state.detailed.get(key);
+    if (!detailed) {
+      detailed = this.checkDetailed(state, objective, options);
+      state.detailed.set(key, detailed);
+      // A failed check is not remembered: the next request tries again.
+      void detailed.then((outcome) => {
+        if (outcome === null && state.detailed.get(key) === detailed) state.detailed.delete(key);
+      });
+    }
+    return detailed;
+  }
+
+  private async checkDetailed(state: DocumentState, objective: string, options: CheckOptions): Promise<PairOutcome | null> {
     try {
-      const options = { ...checkOptions(this.host.settings()), ...wanted };
       const check = await checkDocument(state.text, state.fileName, this.host.runner, options, undefined, { onlyObjective: objective, ...this.host.workspace?.(state.fileName) });
       return check.pairs.find((p) => p.pair.objective.name === objective) ?? null;
     } catch (error) {
-      this.host.log(`the report's check of ${objective} failed: ${error instanceof Error ? error.message : String(error)}`);
+      this.host.log(`the detailed check of ${objective} failed: ${error instanceof Error ? error.message : String(error)}`);
       return null;
     }
   }
@@ -181,6 +200,7 @@ export class DocumentChecks {
       });
       if (!isCurrent()) return;
       state.check = check;
+      state.detailed.clear();
       state.state = 'done';
       this.host.publish(state.uri, { check, text, version });
       this.host.summary(this.summaryOf(state));

@@ -30,21 +30,22 @@ export function sandboxFlags(script: string, memoryMb: number, semiSpaceMb: numb
   ];
 }
 
-/** An OS-level wrapper that keeps a command off the network, as `[command, ...options]` before the wrapped program. */
+/** An OS-level wrapper that keeps a command off the network: `command ...options program ...`. */
 interface NetworkWrapper {
   network: NetworkConfinement;
-  prefix: string[];
+  command: string;
+  options: string[];
 }
 
 /** Linux: `unshare` into a new user namespace (no privileges needed) with an empty network namespace. */
-const namespaceWrapper: NetworkWrapper = { network: 'namespace', prefix: ['unshare', '--user', '--map-root-user', '--net'] };
+const namespaceWrapper: NetworkWrapper = { network: 'namespace', command: 'unshare', options: ['--user', '--map-root-user', '--net'] };
 
 /**
  * macOS: `sandbox-exec` with a profile that denies IP networking in and out. The IPC channel to the
  * host is a socket pair made before the program starts, which the profile leaves alone.
  */
 const macProfile = '(version 1) (allow default) (deny network-outbound (remote ip)) (deny network-inbound (local ip)) (deny network-bind (local ip))';
-const profileWrapper: NetworkWrapper = { network: 'profile', prefix: ['/usr/bin/sandbox-exec', '-p', macProfile] };
+const profileWrapper: NetworkWrapper = { network: 'profile', command: '/usr/bin/sandbox-exec', options: ['-p', macProfile] };
 
 /** The wrapper this platform offers, before it has been tried. */
 export function networkWrapperFor(platform: NodeJS.Platform): NetworkWrapper | null {
@@ -60,8 +61,7 @@ export function workingNetworkWrapper(): NetworkWrapper | null {
   const wrapper = networkWrapperFor(process.platform);
   if (wrapper === null) return null;
   if (!wrapperWorks.has(wrapper)) {
-    const [command, ...options] = wrapper.prefix;
-    wrapperWorks.set(wrapper, spawnSync(command, [...options, process.execPath, '-e', '0'], { stdio: 'ignore', timeout: 5000, env: {} }).status === 0);
+    wrapperWorks.set(wrapper, spawnSync(wrapper.command, [...wrapper.options, process.execPath, '-e', '0'], { stdio: 'ignore', timeout: 5000, env: {} }).status === 0);
   }
   return wrapperWorks.get(wrapper) ? wrapper : null;
 }
@@ -69,10 +69,7 @@ export function workingNetworkWrapper(): NetworkWrapper | null {
 export function sandboxLaunch(script: string, memoryMb: number, semiSpaceMb: number): SandboxLaunch {
   const node = [...sandboxFlags(script, memoryMb, semiSpaceMb), script];
   const wrapper = workingNetworkWrapper();
-  if (wrapper !== null) {
-    const [command, ...options] = wrapper.prefix;
-    return { command, args: [...options, process.execPath, ...node], network: wrapper.network };
-  }
+  if (wrapper !== null) return { command: wrapper.command, args: [...wrapper.options, process.execPath, ...node], network: wrapper.network };
   // From the Node release whose permission model covers the network, no --allow-net means none.
   return { command: process.execPath, args: node, network: has('--allow-net') ? 'permission' : 'none' };
 }

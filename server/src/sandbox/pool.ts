@@ -172,7 +172,7 @@ export class SandboxPool {
     if (this.spareTimer) clearTimeout(this.spareTimer);
     this.spareTimer = setTimeout(() => {
       this.spareTimer = null;
-      if (!this.disposed && !this.spareFailed && !this.spare() !== undefined) setReferenced(this.spawn(), false);
+      if (!this.disposed && !this.spareFailed && this.spare() === undefined) setReferenced(this.spawn(), false);
     }, spareDelayMs);
     this.spareTimer.unref();
   }

@@ -8,6 +8,14 @@ export function errorReport(findings: Finding[], elapsedMs = 0): PairReport {
   return { ...emptyReport('error', findings), elapsedMs };
 }
 
+/** Time kept back from the budget for the engine to write its report once it stops starting calls. */
+const reportReserveMs = 300;
+
+/** When the engine must stop starting calls, for a check whose hard deadline is `deadline`. */
+export function engineEndsAt(deadline: number, timeoutMs: number): number {
+  return deadline - Math.min(reportReserveMs, timeoutMs / 10);
+}
+
 export function timeoutFinding(timeoutMs: number): Finding {
   return {
     code: 'timeout',

@@ -11,11 +11,9 @@ import { types } from 'node:util';
 import runnerSource from 'slopecheck:in-context-runner';
 import { defaultCheckOptions, type PairReport } from '../engine/types';
 import type { SandboxReceipt, SandboxReply, SandboxRequest } from './protocol';
-import { errorReport, internalFinding, timeoutFinding } from './reports';
+import { engineEndsAt, errorReport, internalFinding, timeoutFinding } from './reports';
 import { bundleScriptName } from './sourceMap';
 
-/** Time kept back from the budget for the engine to write its report once it stops starting calls. */
-const reportReserveMs = 300;
 /** Time allowed to collect the console after the budget ran out; it is our code, but in a realm user code may have changed. */
 const consoleGraceMs = 200;
 
@@ -102,7 +100,7 @@ function handle(request: SandboxRequest, { context, script }: FreshRealm): Sandb
       report = loadOutcome;
     } else {
       // The engine stops starting calls a little before the hard deadline, so it can still report.
-      const endsAt = deadline - Math.min(reportReserveMs, request.timeoutMs / 10);
+      const endsAt = engineEndsAt(deadline, request.timeoutMs);
       const run = script(`__slopecheckRunner.runLoaded(${JSON.stringify(JSON.stringify(request.plan))}, ${endsAt});`, 'slopecheck-run.js');
       report = readReport(runUntilDeadline(run), false) ?? internalError('the runner returned no report');
     }
