@@ -138,76 +138,115 @@ describe('large dimension (directional check)', () => {
 });
 
 describe('a time budget', () => {
-  // A clock that advances 50 ms per call of either function: an objective of 50 ms per call,
-  // measured without waiting. f = Σ (i + 1)·cosh(0.3·xᵢ), ∇f = 0.3(i + 1)·sinh(0.3·xᵢ) (elementary calculus).
-  function slowPair(n: number, wrongComponent: number | null) {
-    const clock = { now: 0 };
+  // A clock that advances by `costMs(call number)` per call of either function: an objective of
+  // 50 ms per call, measured without waiting. f = Σ (i + 1)·cosh(0.3·xᵢ),
+  // ∇f = 0.3(i + 1)·sinh(0.3·xᵢ) (elementary calculus); `wrongComponent` flips one sign.
+  function slowPair(n: number, wrongComponent: number | null, costMs: (call: number) => number) {
+    const clock = { now: 0, calls: 0 };
+    const tick = () => (clock.now += costMs(clock.calls++));
     const f = (x: ArrayLike<number>) => {
-      clock.now += 50;
+      tick();
       let s = 0;
       for (let i = 0; i < n; i++) s += (i + 1) * Math.cosh(0.3 * x[i]);
       return s;
     };
     const g = (x: ArrayLike<number>) => {
-      clock.now += 50;
+      tick();
       return Array.from({ length: n }, (_, i) => (i === wrongComponent ? -1 : 1) * 0.3 * (i + 1) * Math.sinh(0.3 * x[i]));
     };
     return { clock, fns: { objective: f, gradient: g, makeVector: makeArray } };
   }
-  const check = (n: number, wrong: number | null, budgetMs: number) => {
-    const { clock, fns } = slowPair(n, wrong);
+  const check = (n: number, wrong: number | null, budgetMs: number, costMs: (call: number) => number = () => 50) => {
+    const { clock, fns } = slowPair(n, wrong, costMs);
     const report = checkPair(fns, [], { dimension: n, learningRate: null, options: defaultCheckOptions, endsAt: budgetMs }, () => clock.now);
     return { report, spentMs: clock.now };
   };
   const budgetMessages = (report: PairReport) => report.findings.filter((f) => f.code === 'budget-spent').map((f) => f.message);
+  const callsOf = (r: PairReport) => r.evaluations.objective + r.evaluations.gradient;
+  // The cheapest honest check: a central difference per component, 2n + 1 calls (common practice);
+  // the engine is allowed four times that plus 40, flat above n = 64.
+  const callTarget = (n: number) => 4 * (2 * Math.min(n, 64) + 1) + 40;
 
-  test('at n = 20 and 50 ms per call, the default budget gives the verdict at probe 1, and says the rest was left out', () => {
-    const { report, spentMs } = check(20, null, 10_000);
-    assert.equal(report.status, 'pass', JSON.stringify(report.findings));
-    assert.ok(spentMs <= 10_000, `ended at ${spentMs} ms`);
-    assert.ok(budgetMessages(report).some((m) => /after probe 1 of 3; the verdict rests on it/.test(m)), JSON.stringify(budgetMessages(report)));
+  for (const n of [3, 20, 100]) {
+    for (const costMs of [10, 50, 200]) {
+      test(`n = ${n} at ${costMs} ms per call: within a 10 s budget the correct gradient passes and a wrong component fails`, () => {
+        const right = check(n, null, 10_000, () => costMs);
+        assert.equal(right.report.status, 'pass', JSON.stringify(right.report.findings));
+        assert.ok(right.spentMs <= 10_000, `ended at ${right.spentMs} ms`);
+        assert.ok(callsOf(right.report) <= callTarget(n), `${callsOf(right.report)} calls`);
+        const wrong = check(n, 1, 10_000, () => costMs);
+        assert.equal(wrong.report.status, 'fail', JSON.stringify(wrong.report.findings));
+        assert.ok(wrong.spentMs <= 10_000, `ended at ${wrong.spentMs} ms`);
+        assert.equal(wrong.report.probes.length, 1, 'no probe is checked after a mismatch');
+        const named = wrong.report.findings.find((f) => f.code === 'gradient-mismatch')?.components;
+        // Where the budget left time to locate it, the wrong component is named, and only it.
+        if (named) assert.deepEqual(named, [1]);
+        if (costMs <= 50) assert.deepEqual(named, [1]);
+      });
+    }
+  }
+
+  test('at n = 20 and 50 ms per call, random directions replace components: 8 differences per component would not fit', () => {
+    const { report } = check(20, null, 10_000);
+    assert.equal(report.probes[0].mode, 'directional');
+    assert.equal(report.probes[0].directions.length, defaultCheckOptions.directionCount);
+    assert.deepEqual(report.probes.slice(1).map((p) => p.mode), ['spot', 'spot']);
+    assert.deepEqual(budgetMessages(report), []);
+    // The same pair at 1 ms per call is checked component by component.
+    assert.equal(check(20, null, 10_000, () => 1).report.probes[0].mode, 'full');
   });
 
-  test('a wrong component fails within the budget, after the first probe', () => {
-    const { report } = check(20, 1, 10_000);
-    assert.equal(report.status, 'fail');
-    assert.deepEqual(report.findings.find((f) => f.code === 'gradient-mismatch')?.components, [1]);
-    assert.equal(report.probes.length, 1, 'no probe is checked after a mismatch');
-  });
-
-  test('a mismatch among the components checked before the budget ran out still fails; unchecked ones keep a correct pair from passing', () => {
-    const wrong = check(20, 1, 5_000);
+  test('an objective that slows down after the plan was made: components checked before the budget ran out still decide', () => {
+    const slowing = (call: number) => (call < 12 ? 10 : 150);
+    const wrong = check(20, 1, 5_000, slowing);
     assert.equal(wrong.report.status, 'fail');
-    const right = check(20, null, 5_000);
+    const right = check(20, null, 5_000, slowing);
     assert.equal(right.report.status, 'inconclusive');
     const open = right.report.findings.find((f) => f.code === 'gradient-undecided')!;
     assert.match(open.message, /the time budget ran out before it was checked/);
     assert.ok(open.components!.includes(19));
     assert.ok(right.spentMs <= 5_000);
+    assert.match(budgetMessages(right.report)[0], /the time budget ran out after probe 1 of 3/);
+  });
+
+  test('a tight budget trims the random directions and says how many were tested', () => {
+    const { report } = check(100, null, 2_000);
+    assert.equal(report.status, 'pass');
+    assert.equal(report.probes[0].directions.length, 1);
+    assert.ok(budgetMessages(report).some((m) => /allowed 1 of 6 random directions at probe 1/.test(m)), JSON.stringify(budgetMessages(report)));
   });
 
   test('without time for one probe the check says so, with the calls made and their cost', () => {
-    const { report } = check(100, null, 2_000);
+    const { report } = check(100, null, 500);
     assert.equal(report.status, 'inconclusive');
     assert.match(budgetMessages(report)[0], /before probe 1 was decided; no verdict \(\d+ calls .* about 5e1 ms each\)/);
   });
 
-  test('with time to spare nothing is cut short', () => {
+  test('with time to spare nothing is cut short: probe 1 whole, the others spot-checked', () => {
     const { report } = check(3, null, 1e9);
     assert.equal(report.status, 'pass');
     assert.deepEqual(budgetMessages(report), []);
-    assert.equal(report.probes.length, 3);
+    assert.deepEqual(report.probes.map((p) => p.mode), ['full', 'spot', 'spot']);
+  });
+
+  test('a gradient wrong only away from probe 1 is found by a spot check, then checked whole there', () => {
+    // ∂f/∂x₁ wrong where x₁ < 0 only: probe 1 (the start, x₁ = 0.5) cannot see it.
+    const f = (x: ArrayLike<number>) => x[0] ** 2 + Math.exp(x[1]);
+    const g = (x: ArrayLike<number>) => [2 * x[0], x[1] < 0 ? 2 * Math.exp(x[1]) : Math.exp(x[1])];
+    const report = checkPair({ objective: f, gradient: g, makeVector: makeArray }, [[1, 0.5], [0.3, -1], [2, 1]], { dimension: null, learningRate: null, options: defaultCheckOptions });
+    assert.equal(report.status, 'fail');
+    assert.deepEqual(report.probes.map((p) => p.mode), ['full', 'full']);
+    assert.deepEqual(report.findings.find((f) => f.code === 'gradient-mismatch')?.components, [1]);
   });
 
   test('without a learning rate the curvature is left out unless asked for: fewer calls for the same verdict', () => {
     const plain = check(3, null, 1e9).report;
     assert.equal(plain.smoothness, null);
-    const { clock, fns } = slowPair(3, null);
+    const { clock, fns } = slowPair(3, null, () => 50);
     const asked = checkPair(fns, [], { dimension: 3, learningRate: null, options: { ...defaultCheckOptions, smoothness: true }, endsAt: null }, () => clock.now);
     assert.equal(asked.status, plain.status);
     assert.ok(asked.smoothness !== null && asked.smoothness.lipschitz > 0);
-    const calls = (r: PairReport) => r.evaluations.objective + r.evaluations.gradient;
-    assert.ok(calls(plain) < calls(asked), `${calls(plain)} calls against ${calls(asked)}`);
+    assert.ok(callsOf(plain) < callsOf(asked), `${callsOf(plain)} calls against ${callsOf(asked)}`);
   });
 });
 
@@ -246,6 +285,56 @@ describe('curvature and learning rates', () => {
     assert.equal(report.learningRate?.status, 'aggressive');
     assert.match(report.findings.find((x) => x.code === 'rate-aggressive')!.message, /no positive curvature found, so no divergence threshold/);
   });
+
+  test('Hessian-vector products with a visible step error widen L̂ by it: a float32 gradient of a steep cosine', () => {
+    // f = −Σ cos(20·xᵢ): curvature 400·cos(20·xᵢ) and fourth derivative −160000·cos(20·xᵢ)
+    // (elementary calculus), so central differences of the gradient at float32 steps fall short of
+    // the true curvature by about t²·400/6 of it.
+    const a = 20;
+    const f = (x: ArrayLike<number>) => -Math.cos(a * x[0]) - Math.cos(a * x[1]);
+    const g: Gradient = (x) => [Math.fround(a * Math.sin(a * x[0])), Math.fround(a * Math.sin(a * x[1]))];
+    const probe = [0.02, 0.05];
+    const lambdaMax = a * a * Math.cos(a * probe[0]);
+    const report = checkPair({ objective: f, gradient: g, makeVector: makeArray }, [probe], withRate(1.5 / lambdaMax));
+    assert.equal(report.status, 'pass', JSON.stringify(report.findings));
+    const ritz = report.probes[0].smoothness!.lambdaMax;
+    assert.ok(ritz < lambdaMax, `the products underestimate: Ritz value ${ritz} against ${lambdaMax}`);
+    assert.ok(report.smoothness!.productError! > lambdaMax - ritz, `error estimate ${report.smoothness!.productError} covers the shortfall ${lambdaMax - ritz}`);
+    assert.ok(report.smoothness!.lipschitz >= lambdaMax, `L̂ ${report.smoothness!.lipschitz} ≥ ${lambdaMax}`);
+    assert.ok(report.smoothness!.lipschitz < 1.1 * lambdaMax, `L̂ ${report.smoothness!.lipschitz} stays near ${lambdaMax}`);
+    assert.match(report.findings.find((x) => x.code.startsWith('rate-'))!.message, /widened by the Hessian-vector products' error/);
+  });
+
+  // ½xᵀAx with A diagonal: the eigenvalues are A's entries, and a rate α diverges on it exactly
+  // from 2/λmax (by hand). Crowded spectra slow Lanczos down (Golub & Van Loan 2013, §10.1.5, from memory).
+  const quadratic = (diagonal: number[]) => {
+    const n = diagonal.length;
+    const f = (x: ArrayLike<number>) => { let s = 0; for (let i = 0; i < n; i++) s += 0.5 * diagonal[i] * x[i] ** 2; return s; };
+    const g: Gradient = (x) => Array.from({ length: n }, (_, i) => diagonal[i] * x[i]);
+    const probe = Array.from({ length: n }, (_, i) => 1 + 0.5 * Math.sin(3 * i));
+    return (rate: number, lanczosSteps = defaultCheckOptions.lanczosSteps) =>
+      checkPair({ objective: f, gradient: g, makeVector: makeArray }, [probe], withRate(rate, { ...defaultCheckOptions, lanczosSteps }));
+  };
+  const spectra = {
+    'a cluster at the top': Array.from({ length: 50 }, (_, i) => (i < 40 ? 100 * (1 - 1e-3 * i) : 1 + i / 10)),
+    'a cluster at the bottom under one large eigenvalue': Array.from({ length: 50 }, (_, i) => (i === 17 ? 100 : 1 + 1e-3 * i)),
+    'evenly crowded over two decades': Array.from({ length: 50 }, (_, i) => 100 * 0.9 ** i),
+  };
+  for (const [name, diagonal] of Object.entries(spectra)) {
+    test(`crowded spectrum, ${name}: no false alarm and no false "safe", with few Lanczos steps or many`, () => {
+      const check = quadratic(diagonal);
+      const lambdaMax = Math.max(...diagonal);
+      for (const steps of [5, defaultCheckOptions.lanczosSteps]) {
+        const safe = check(0.9 / lambdaMax, steps);
+        assert.equal(safe.status, 'pass', JSON.stringify(safe.findings));
+        assert.ok(safe.smoothness!.lipschitz >= lambdaMax * (1 - 1e-6), `L̂ ${safe.smoothness!.lipschitz} at ${steps} steps`);
+        assert.notEqual(safe.learningRate?.status, 'divergent');
+        assert.notEqual(check(1.1 / lambdaMax, steps).learningRate?.status, 'safe');
+        assert.notEqual(check(1.9 / lambdaMax, steps).learningRate?.status, 'divergent', `1.9/λmax at ${steps} steps`);
+        assert.equal(check(2.2 / lambdaMax, steps).learningRate?.status, 'divergent', `2.2/λmax at ${steps} steps`);
+      }
+    });
+  }
 
   test('an unconverged Lanczos estimate widens L̂ upward and says so', () => {
     // ½xᵀAx with A = diag(1, 2, …, 60): λmax = 60. Three Lanczos steps cannot converge on it.

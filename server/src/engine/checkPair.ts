@@ -2,7 +2,9 @@
 import { emptyReport } from './emptyReport';
 import { undecidedWording } from './decision';
 import { formatBound, formatList } from './format';
-import { buildStepStudy, checkProbe, type ProbeOutcome } from './probeCheck';
+import { defaultDifferenceSettings } from './differences';
+import { buildStepStudy, checkProbe, type ProbeOutcome, type ProbeWork } from './probeCheck';
+import type { ProbeContext } from './probeContext';
 import { createRandom } from './random';
 import { probesAroundStart } from './startProbes';
 import { probeSmoothness, smoothnessOf } from './smoothness';
@@ -103,42 +105,78 @@ function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, 
   return points;
 }
 
-/** Another probe is started only when this many times the last probe's time is left in the budget. */
+/** Another probe is started only when this many times its expected time is left in the budget. */
 const probeTimeMargin = 1.2;
+
+/**
+ * Calls a smooth slice's difference takes: the tableau's least rows, two calls each. Plans are
+ * sized from it and the measured cost of a call.
+ */
+const callsPerDerivative = 2 * defaultDifferenceSettings.minLevels;
+/** The first probe's comparison may take this share of the time left; the rest is for the other probes and the curvature. */
+const firstProbeShare = 0.5;
+
+/**
+ * The first probe's comparison, from what a call cost there: every component when the dimension
+ * allows it (a cap on calls) and the time left does, or when it costs no more than the random
+ * directions would; else random directions, as many as fit in the time left.
+ */
+function firstProbeWork(context: ProbeContext, options: CheckOptions): ProbeWork {
+  const n = context.x.length;
+  const available = firstProbeShare * context.calls.remainingMs();
+  const derivativeMs = callsPerDerivative * context.calls.meanCallMs('objective');
+  const affordable = derivativeMs > 0 ? Math.floor(available / derivativeMs) : Number.POSITIVE_INFINITY;
+  if (n <= options.fullCheckMaxDimension && (n <= options.directionCount || n <= affordable)) return { mode: 'full' };
+  return { mode: 'directional', directions: Math.max(1, Math.min(options.directionCount, affordable)) };
+}
+
+/** f and ∇f at the probe, then its derivatives. */
+function expectedSpotCalls(work: Extract<ProbeWork, { mode: 'spot' }>): number {
+  return 2 + callsPerDerivative * (1 + work.components.length);
+}
 
 function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
   // The gradient verdict first, probe by probe while it keeps passing: a mismatch decides it.
+  // Probe 1 is checked whole; the others are spot checks where probe 1 settled the gradient,
+  // and a spot check that finds a mismatch is checked again whole, with the noise measured there.
   const outcomes: ProbeOutcome[] = [];
   let cutShort = false;
+  const randomsOf = (p: number) => [createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p)] as const;
   try {
-    for (let p = 0; p < points.length; p++) {
-      const callsBefore = calls.made();
-      const outcome = checkProbe(calls, points[p], p, options, createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p));
+    const first = checkProbe(calls, points[0], 0, null, (context) => firstProbeWork(context, options), ...randomsOf(0));
+    outcomes.push(first);
+    const firstProbeCalls = calls.made();
+    const { mode } = first.report;
+    const trimmed = first.directional && mode === 'directional' ? first.directional.directions.length : options.directionCount;
+    if (trimmed < options.directionCount && !first.cut) report.findings.push(budgetFinding(calls, `the time budget allowed ${trimmed} of ${options.directionCount} random directions at probe 1`));
+    for (let p = 1; p < points.length && !outcomes.some((o) => o.mismatch || o.cut); p++) {
+      const whole: ProbeWork = mode === 'full' ? { mode: 'full' } : { mode: 'directional', directions: trimmed };
+      const work = laterProbeWork(outcomes, whole);
+      const expectedMs = (work.mode === 'spot' ? expectedSpotCalls(work) : firstProbeCalls) * calls.meanCallMs();
+      if (calls.remainingMs() < probeTimeMargin * expectedMs) {
+        cutShort = true;
+        break;
+      }
+      const carried = { absolute: first.context.noise, relative: first.report.noise };
+      let outcome = checkProbe(calls, points[p], p, work.mode === 'spot' ? carried : null, () => work, ...randomsOf(p));
+      if (outcome.mismatch && work.mode === 'spot') outcome = checkProbe(calls, points[p], p, null, () => whole, ...randomsOf(p));
       outcomes.push(outcome);
-      report.probes.push(outcome.report);
-      report.findings.push(...outcome.findings);
-      if (outcome.mismatch) break;
-      if (outcome.cut) {
-        cutShort = true;
-        break;
-      }
-      // Sized to the budget from what this probe cost: a probe that cannot end in time is not begun.
-      const probeMs = (calls.made() - callsBefore) * calls.meanCallMs();
-      if (p + 1 < points.length && calls.remainingMs() < probeTimeMargin * probeMs) {
-        cutShort = true;
-        break;
-      }
     }
+    if (outcomes.some((o) => o.cut)) cutShort = true;
   } catch (err) {
     if (!(err instanceof BudgetSpent)) throw err;
     cutShort = true;
   }
+  for (const outcome of outcomes) {
+    report.probes.push(outcome.report);
+    report.findings.push(...outcome.findings);
+  }
   if (outcomes.length === 0) {
     report.status = 'inconclusive';
-    report.findings.push(budgetFinding(calls, `before probe 1 was decided; no verdict`));
+    report.findings.push(budgetFinding(calls, 'the time budget ran out before probe 1 was decided; no verdict'));
     return;
   }
-  if (cutShort) report.findings.push(budgetFinding(calls, `after ${outcomes.length === 1 ? 'probe 1' : `probes 1–${outcomes.length}`} of ${points.length}; the verdict rests on ${outcomes.length === 1 ? 'it' : 'them'}`));
+  if (cutShort) report.findings.push(budgetFinding(calls, `the time budget ran out after ${outcomes.length === 1 ? 'probe 1' : `probes 1–${outcomes.length}`} of ${points.length}; the verdict rests on ${outcomes.length === 1 ? 'it' : 'them'}`));
   report.maxRelError = Math.max(...outcomes.map((o) => o.report.maxRelError));
   const failing = outcomes.find((o) => o.mismatch);
   report.diagnosis = failing ? failing.diagnosis : null;
@@ -186,7 +224,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
     if (!(err instanceof BudgetSpent)) throw err;
     report.smoothness = null;
     report.learningRate = null;
-    report.findings.push(budgetFinding(calls, 'before the smoothness estimate was done; no learning-rate verdict'));
+    report.findings.push(budgetFinding(calls, 'the time budget ran out before the smoothness estimate was done; no learning-rate verdict'));
   }
 }
 
@@ -226,19 +264,16 @@ function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], plan: Pa
  */
 function unconfirmedDerivatives(outcomes: ProbeOutcome[]): Finding | null {
   if (outcomes[0].report.mode === 'directional') {
-    if (outcomes.some((o) => o.complete && !o.stationary)) return null;
+    if (outcomes.some((o) => o.report.mode === 'directional' && o.complete && !o.stationary)) return null;
     const first = outcomes.find((o) => !o.stationary);
     if (!first) return null;
     const reasons = [...new Set(first.directional?.directions.flatMap((d) => (d.undecided ? [d.undecided] : [])) ?? [])];
     return undecidedFinding(`no probe decided every random direction (at probe ${first.context.probeIndex + 1}: ${reasons.map((r) => undecidedWording[r]).join('; ')})`, [], first.context.probeIndex);
   }
   const reasonOf = new Map<number, UndecidedReason>();
-  const confirmed = new Set<number>();
+  const confirmed = confirmedComponents(outcomes);
   for (const outcome of outcomes) {
-    for (const c of outcome.full?.components ?? []) {
-      if (!c.undecided && !c.mismatch) confirmed.add(c.index);
-      else if (c.undecided && !reasonOf.has(c.index)) reasonOf.set(c.index, c.undecided);
-    }
+    for (const c of outcome.full?.components ?? []) if (c.undecided && !reasonOf.has(c.index)) reasonOf.set(c.index, c.undecided);
   }
   // Components no probe reached before the time budget ran out.
   for (let index = 0; index < outcomes[0].context.x.length; index++) {
@@ -274,15 +309,37 @@ function stationaryFinding(stationary: ProbeOutcome[], all: boolean): Finding {
   };
 }
 
-/** The check ran out of its time budget: what was left undone, with the figures to size the budget. */
-function budgetFinding(calls: UserCalls, where: string): Finding {
+/** The time budget cut the check: what was left undone, with the figures to size the budget. */
+function budgetFinding(calls: UserCalls, what: string): Finding {
   const made = calls.made();
   return {
     code: 'budget-spent',
     severity: 'info',
     subject: 'objective',
-    message: `the time budget ran out ${where} (${made} calls of the objective and gradient, about ${formatBound(calls.meanCallMs())} ms each); a larger time limit would let the check finish`,
+    message: `${what} (${made} calls of the objective and gradient, about ${formatBound(calls.meanCallMs())} ms each); a larger time limit would let the check finish`,
   };
+}
+
+/**
+ * A later probe's work: a spot check of what is still open once an earlier probe settled the
+ * gradient (full mode: the components no probe confirmed; directional mode: a probe that decided
+ * every direction); else the whole check again.
+ */
+function laterProbeWork(outcomes: ProbeOutcome[], whole: ProbeWork): ProbeWork {
+  if (whole.mode === 'directional') {
+    return outcomes.some((o) => o.report.mode === 'directional' && o.complete && !o.stationary) ? { mode: 'spot', components: [] } : whole;
+  }
+  const n = outcomes[0].context.x.length;
+  const confirmed = confirmedComponents(outcomes);
+  if (confirmed.size === 0) return whole;
+  return { mode: 'spot', components: Array.from({ length: n }, (_, i) => i).filter((i) => !confirmed.has(i)) };
+}
+
+/** Components that agreed at some probe. */
+function confirmedComponents(outcomes: ProbeOutcome[]): Set<number> {
+  const confirmed = new Set<number>();
+  for (const outcome of outcomes) for (const c of outcome.full?.components ?? []) if (!c.undecided && !c.mismatch) confirmed.add(c.index);
+  return confirmed;
 }
 
 function readClock(clock: () => number): number {

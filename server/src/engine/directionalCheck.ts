@@ -6,12 +6,15 @@ import { directionalCheckOf, directionalSize, type Judgement } from './decision'
 import { checkDirection, initialRelativeStep, type ProbeContext } from './probeContext';
 import type { Random } from './random';
 import type { DirectionalCheck } from './types';
+import { BudgetSpent } from './userCalls';
 
 export interface DirectionalResult {
   directions: DirectionalCheck[];
   kinks: number;
   /** Step of the best estimate along the first direction, and that direction, for the step study. */
   firstDirection: { direction: Float64Array; step: number; numerical: number } | null;
+  /** The time budget ran out before every direction was tested. */
+  cut: boolean;
 }
 
 interface RangeTest {
@@ -54,10 +57,18 @@ function testDirection(context: ProbeContext, direction: Float64Array, from: num
 
 export function checkRandomDirections(context: ProbeContext, random: Random, count: number): DirectionalResult {
   const n = context.x.length;
-  const result: DirectionalResult = { directions: [], kinks: 0, firstDirection: null };
+  const result: DirectionalResult = { directions: [], kinks: 0, firstDirection: null, cut: false };
   for (let k = 0; k < count; k++) {
     const direction = rangeDirection(context, random, 0, n);
-    const test = testDirection(context, direction, 0, n);
+    let test: RangeTest;
+    try {
+      test = testDirection(context, direction, 0, n);
+    } catch (err) {
+      // Out of time: the directions tested so far still count (a mismatch among them decides).
+      if (!(err instanceof BudgetSpent)) throw err;
+      result.cut = true;
+      break;
+    }
     result.directions.push(directionalCheckOf(test.analytic, test.numerical.value, test.verdict));
     if (test.numerical.kink) result.kinks++;
     if (k === 0) result.firstDirection = { direction, step: test.numerical.step, numerical: test.numerical.value };

@@ -14,16 +14,17 @@ export interface FullCheckResult {
   kinks: number[];
   /** The time budget ran out before every component was checked; `components` holds those that were. */
   cut: boolean;
-  /** Step of the best estimate, per component. */
+  /** Step of the best estimate, per entry of `components`. */
   steps: number[];
 }
 
-export function checkEveryComponent(context: ProbeContext): FullCheckResult {
+/** Checks the components `indices` (every one by default), in order. */
+export function checkEveryComponent(context: ProbeContext, indices: Iterable<number> = context.x.keys()): FullCheckResult {
   const { x, gradient } = context;
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a finite-difference point' };
   const relativeStep = initialRelativeStep(context);
   const result: FullCheckResult = { components: [], kinks: [], steps: [], cut: false };
-  for (let i = 0; i < x.length; i++) {
+  for (const i of indices) {
     const phi = (t: number) => context.calls.objective(offsetComponent(x, i, t), site);
     const scale = Math.max(Math.abs(x[i]), 1);
     // Each component is judged against its own size: a tiny component must be resolved on its own.

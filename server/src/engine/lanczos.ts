@@ -16,6 +16,8 @@ export interface LanczosResult {
    */
   lambdaMaxResidual: number;
   lambdaMinResidual: number;
+  /** Unit Ritz vector of whichever of λmax and λmin is larger in magnitude. */
+  dominantVector: Float64Array;
   /** Operator products spent. */
   products: number;
 }
@@ -75,8 +77,19 @@ export function lanczosExtremes(multiply: (v: Float64Array) => Float64Array | nu
   }
   if (diagonal.length === 0) return null;
   // T_k couples its k rows through the first k − 1 off-diagonal entries.
-  const ritzValues = tridiagonalEigenvalues(diagonal, offDiagonal.slice(0, diagonal.length - 1));
-  return { lambdaMax: highest, lambdaMin: lowest, ritzValues, lambdaMaxResidual: residuals.lambdaMax, lambdaMinResidual: residuals.lambdaMin, products };
+  const coupling = offDiagonal.slice(0, diagonal.length - 1);
+  const ritzValues = tridiagonalEigenvalues(diagonal, coupling);
+  const dominant = Math.abs(highest) >= Math.abs(lowest) ? highest : lowest;
+  const dominantVector = ritzVector(basis, tridiagonalEigenvector(diagonal, coupling, dominant));
+  return { lambdaMax: highest, lambdaMin: lowest, ritzValues, lambdaMaxResidual: residuals.lambdaMax, lambdaMinResidual: residuals.lambdaMin, dominantVector, products };
+}
+
+/** y = Q_k·s, normalised. */
+function ritzVector(basis: Float64Array[], s: ArrayLike<number>): Float64Array {
+  const y = new Float64Array(basis[0].length);
+  for (let j = 0; j < basis.length; j++) for (let i = 0; i < y.length; i++) y[i] += s[j] * basis[j][i];
+  const length = norm2(y) || 1;
+  return y.map((value) => value / length);
 }
 
 /**

@@ -16,6 +16,7 @@ import { componentCheckOf, isUsable } from './decision';
 import { checkDirection, initialRelativeStep, roundoffFloor, type ProbeContext } from './probeContext';
 import type { Random } from './random';
 import type { ComponentCheck } from './types';
+import { BudgetSpent } from './userCalls';
 
 export interface Localisation {
   /** Confirmed wrong components, by index. */
@@ -70,8 +71,14 @@ export function localiseWrongComponents(context: ProbeContext, random: Random, b
   for (let i = 0; i < n; i++) weights[i] = (random.uniform() < 0.5 ? -1 : 1) * (1 + random.uniform()) * Math.max(Math.abs(context.x[i]), 1);
   const search: Search = { context, random, weights, checked: new Map(), errors: new Map(), budget, pooled: 0, coordinate: 0, incomplete: false };
   const everything = Array.from({ length: n }, (_, i) => i);
-  const whole = measurePool(search, everything, () => 1);
-  if (whole !== null) locate(search, everything, whole);
+  try {
+    const whole = measurePool(search, everything, () => 1);
+    if (whole !== null) locate(search, everything, whole);
+  } catch (err) {
+    // Out of time: the components confirmed so far are still reported.
+    if (!(err instanceof BudgetSpent)) throw err;
+    search.incomplete = true;
+  }
   const components = [...search.checked.values()].filter((c) => c.mismatch).sort((a, b) => a.index - b.index);
   return { components, pooledDifferences: search.pooled, coordinateDifferences: search.coordinate, incomplete: search.incomplete };
 }

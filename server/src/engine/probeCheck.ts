@@ -10,7 +10,7 @@ import { estimateNoise } from './noise';
 import { gradientUnitOf, type ProbeContext } from './probeContext';
 import type { Random } from './random';
 import { isDecided } from './decision';
-import type { CheckOptions, ComponentCheck, Diagnosis, DirectionalCheck, Finding, ProbeReport, StepStudy } from './types';
+import type { ComponentCheck, Diagnosis, DirectionalCheck, Finding, ProbeReport, StepStudy } from './types';
 import { CheckStopped, makeFinding, type CallSite, type UserCalls } from './userCalls';
 import { offset, offsetComponent } from './vectors';
 
@@ -48,7 +48,33 @@ const shownCoordinates = 64;
 // Difference estimates (pooled and coordinate) allowed for locating wrong components at one probe.
 const localisationBudget = 80;
 
-export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number, options: CheckOptions, noiseRandom: Random, directionRandom: Random): ProbeOutcome {
+/** What is checked at one probe, once f, ∇f and the noise there are known (checkPair plans it). */
+export type ProbeWork =
+  /** Every component by its own difference. */
+  | { mode: 'full' }
+  /** Seeded random directions; wrong components are then located. */
+  | { mode: 'directional'; directions: number }
+  /**
+   * Where an earlier probe established the gradient: one random direction, and the components
+   * no earlier probe confirmed. A mismatch here is checked again as a whole probe (checkPair).
+   */
+  | { mode: 'spot'; components: number[] };
+
+/** Noise of f carried from the probe where it was measured, for a spot check. */
+export interface CarriedNoise {
+  absolute: number;
+  /** Relative to |f| there: where |f| is larger, the noise is taken to grow with it. */
+  relative: number;
+}
+
+// Random directions of a spot check.
+const spotDirections = 1;
+
+/**
+ * The check at one probe: f, ∇f, then (unless `carried` gives the noise, as for a spot check)
+ * repeatability and the noise of f, then the work `plan` chooses from what those cost.
+ */
+export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number, carried: CarriedNoise | null, plan: (context: ProbeContext) => ProbeWork, noiseRandom: Random, directionRandom: Random): ProbeOutcome {
   const site: CallSite = { probeIndex, point: 'the probe' };
   const value = calls.objective(x, site);
   if (!Number.isFinite(value)) throw new CheckStopped(makeFinding('non-finite-value', 'objective', `the objective is ${value} at probe ${probeIndex + 1}`, site));
@@ -60,21 +86,26 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
     finding.components = nonFinite;
     throw new CheckStopped(finding);
   }
-  const repeated = calls.objective(x, site);
-  const unrepeatable = !(repeated === value);
-  const spread = Number.isFinite(repeated) ? Math.abs(repeated - value) : Math.abs(value);
   const context: ProbeContext = { calls, probeIndex, x, value, gradient, noise: 0, gradientUnit: gradientUnitOf(gradient) };
-  context.noise = Math.max(noiseNear(context, noiseRandom), spread);
+  let repeated = value;
+  if (carried) {
+    context.noise = Math.max(carried.absolute, carried.relative * Math.abs(value));
+  } else {
+    repeated = calls.objective(x, site);
+    const spread = Number.isFinite(repeated) ? Math.abs(repeated - value) : Math.abs(value);
+    context.noise = Math.max(noiseNear(context, noiseRandom), spread);
+  }
+  const work = plan(context);
 
   const outcome: ProbeOutcome = {
     report: {
       point: Array.from(x.subarray(0, shownCoordinates)),
       dimension: x.length,
       value,
-      mode: x.length <= options.fullCheckMaxDimension ? 'full' : 'directional',
+      mode: work.mode,
       components: [],
       directions: [],
-      noise: value !== 0 ? context.noise / Math.abs(value) : context.noise,
+      noise: relativeNoise(context),
       maxRelError: 0,
       stepStudy: null,
       smoothness: null,
@@ -88,15 +119,21 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
     noisy: false,
     complete: false,
     cut: false,
-    unrepeatable,
+    unrepeatable: !(repeated === value),
     repeatedValue: repeated,
     findings: [],
     full: null,
     directional: null,
   };
-  if (outcome.report.mode === 'full') runFull(outcome);
-  else runDirectional(outcome, options, directionRandom);
+  if (work.mode === 'full') runFull(outcome);
+  else if (work.mode === 'directional') runDirectional(outcome, work.directions, directionRandom);
+  else runSpot(outcome, work.components, directionRandom);
   return outcome;
+}
+
+/** The noise of f relative to |f(x)| (absolute where f(x) = 0), as the report shows it. */
+export function relativeNoise(context: ProbeContext): number {
+  return context.value !== 0 ? context.noise / Math.abs(context.value) : context.noise;
 }
 
 /** Noise along a seeded ±max(|x_i|, 1) direction (Moré–Wild table). */
@@ -117,7 +154,7 @@ function runFull(outcome: ProbeOutcome): void {
   classifyProbe(outcome, full.components);
   if (full.cut) outcome.complete = false;
   report.components = full.components.map(sanitiseComponent);
-  report.maxRelError = Math.max(0, ...full.components.filter((c) => !c.undecided).map((c) => c.relError));
+  report.maxRelError = largestRelError(full.components);
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
   if (!outcome.mismatch) return;
   outcome.diagnosis = diagnoseComponents(full.components, !full.cut);
@@ -127,18 +164,18 @@ function runFull(outcome: ProbeOutcome): void {
   outcome.findings.push(finding);
 }
 
-function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Random): void {
+function runDirectional(outcome: ProbeOutcome, count: number, random: Random): void {
   const { context, report } = outcome;
-  const directional = checkRandomDirections(context, random, options.directionCount);
+  const directional = checkRandomDirections(context, random, count);
   outcome.directional = directional;
-  const size = (d: { analytic: number; numerical: number }) => Math.max(Math.abs(d.analytic), Math.abs(d.numerical));
+  outcome.cut = directional.cut;
   const mismatched = directional.directions.filter((d) => d.mismatch);
   outcome.mismatch = mismatched.length > 0;
   outcome.kink = directional.kinks > 0;
   classifyProbe(outcome, directional.directions);
-  report.directions = directional.directions.map((d) => ({ ...d, numerical: finiteOr(d.numerical, 0), errorBound: finiteOr(d.errorBound, Number.MAX_VALUE) }));
-  const informative = directional.directions.filter((d) => !d.undecided);
-  report.maxRelError = Math.max(0, ...informative.map((d) => Math.abs(d.analytic - d.numerical) / (size(d) || 1)));
+  if (directional.cut) outcome.complete = false;
+  report.directions = directional.directions.map(sanitiseDirection);
+  report.maxRelError = largestRelError(directional.directions);
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, []));
   if (!outcome.mismatch) return;
   const example = mismatched[0];
@@ -159,6 +196,32 @@ function runDirectional(outcome: ProbeOutcome, options: CheckOptions, random: Ra
   const finding = makeFinding('gradient-mismatch', 'gradient', text, { probeIndex: context.probeIndex, point: 'the probe' });
   if (components.length > 0) finding.components = components;
   outcome.findings.push(finding);
+}
+
+function runSpot(outcome: ProbeOutcome, components: number[], random: Random): void {
+  const { context, report } = outcome;
+  const directional = checkRandomDirections(context, random, spotDirections);
+  // A suspect direction ends the spot check: checkPair checks the probe again as a whole.
+  const suspect = directional.directions.some((d) => d.mismatch);
+  const full: FullCheckResult = suspect ? { components: [], kinks: [], steps: [], cut: false } : checkEveryComponent(context, components);
+  outcome.directional = directional;
+  outcome.full = full;
+  outcome.mismatch = suspect || full.components.some((c) => c.mismatch);
+  outcome.kink = directional.kinks > 0 || full.kinks.length > 0;
+  outcome.cut = directional.cut || full.cut;
+  const checks = [...directional.directions, ...full.components];
+  classifyProbe(outcome, checks);
+  if (outcome.cut) outcome.complete = false;
+  report.directions = directional.directions.map(sanitiseDirection);
+  report.components = full.components.map(sanitiseComponent);
+  report.maxRelError = largestRelError(checks);
+  if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
+}
+
+/** Largest |analytic − numerical| / max(|analytic|, |numerical|) among the decided derivatives. */
+function largestRelError(checks: DirectionalCheck[]): number {
+  const decided = checks.filter((c) => isDecided(c));
+  return Math.max(0, ...decided.map((c) => Math.abs(c.analytic - c.numerical) / (Math.max(Math.abs(c.analytic), Math.abs(c.numerical)) || 1)));
 }
 
 /**
@@ -195,14 +258,14 @@ function nonSmoothFinding(outcome: ProbeOutcome, components: number[]): Finding 
 export function buildStepStudy(outcome: ProbeOutcome): StepStudy | null {
   const { context } = outcome;
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a step-study point' };
-  if (outcome.full) {
+  if (outcome.full && outcome.full.components.length > 0) {
     const candidates = outcome.full.components.filter((c) => Number.isFinite(c.numerical));
     if (candidates.length === 0) return null;
     const worst = candidates.reduce((a, b) => (rank(b) > rank(a) ? b : a));
     const scale = Math.max(Math.abs(context.x[worst.index]), 1);
     const phi = (t: number) => context.calls.objective(offsetComponent(context.x, worst.index, t), site);
     const study = studySteps(phi, worst.numerical, 0.1 * scale);
-    return { component: worst.index, ...study, chosenStep: outcome.full.steps[worst.index] };
+    return { component: worst.index, ...study, chosenStep: outcome.full.steps[outcome.full.components.indexOf(worst)] };
   }
   const first = outcome.directional?.firstDirection;
   if (!first || !Number.isFinite(first.numerical)) return null;
@@ -215,9 +278,12 @@ function rank(c: ComponentCheck): number {
   return (c.mismatch ? 2 : 0) + Math.min(c.relError, 1);
 }
 
-function sanitiseComponent(c: ComponentCheck): ComponentCheck {
+/** Non-finite figures made finite for the report, which JSON must carry. */
+function sanitiseDirection<Check extends DirectionalCheck>(c: Check): Check {
   return { ...c, numerical: finiteOr(c.numerical, 0), errorBound: finiteOr(c.errorBound, Number.MAX_VALUE) };
 }
+
+const sanitiseComponent: (c: ComponentCheck) => ComponentCheck = sanitiseDirection;
 
 function finiteOr(value: number, fallback: number): number {
   return Number.isFinite(value) ? value : fallback;

@@ -5,7 +5,7 @@ import type { ProbeContext } from './probeContext';
 import { normalVector, type Random } from './random';
 import type { ProbeReport, SmoothnessEstimate } from './types';
 import type { CallSite } from './userCalls';
-import { allFinite, norm2, offset } from './vectors';
+import { allFinite, dot, norm2, offset } from './vectors';
 
 export type ProbeSmoothness = NonNullable<ProbeReport['smoothness']>;
 
@@ -19,9 +19,9 @@ const secantCount = 2;
  * balances O(t²) truncation against roundoff u in the gradient (common practice): one
  * step scaled by ‖x‖ would move a coordinate near 0 as far as one near 10⁶.
  */
-export function hessianVectorProduct(context: ProbeContext): (v: Float64Array) => Float64Array | null {
+export function hessianVectorProduct(context: ProbeContext, stretch = 1): (v: Float64Array) => Float64Array | null {
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a Hessian-vector product point' };
-  const reach = Math.cbrt(context.gradientUnit);
+  const reach = stretch * Math.cbrt(context.gradientUnit);
   return (v) => {
     let t = Number.POSITIVE_INFINITY;
     for (let i = 0; i < v.length; i++) if (v[i] !== 0) t = Math.min(t, (reach * Math.max(Math.abs(context.x[i]), 1)) / Math.abs(v[i]));
@@ -57,13 +57,29 @@ export function secantSlopes(context: ProbeContext, random: Random): number {
   return largest;
 }
 
+/**
+ * The products' own error, from two step sizes: the Rayleigh quotient yᵀHy of the dominant Ritz
+ * vector y with steps t and 2t. The O(t²) truncation error of the coarser step is about four
+ * times that of the finer, and rounding differs between them, so the gap bounds both at t
+ * (common practice, as in Richardson's error estimate).
+ */
+const errorStepRatio = 2;
+
+function productError(context: ProbeContext, y: Float64Array): number | null {
+  const fine = hessianVectorProduct(context)(y);
+  const coarse = hessianVectorProduct(context, errorStepRatio)(y);
+  return fine && coarse ? Math.abs(dot(y, fine) - dot(y, coarse)) : null;
+}
+
 export function probeSmoothness(context: ProbeContext, random: Random, lanczosSteps: number): ProbeSmoothness | null {
   const before = context.calls.counts.gradient;
   const lanczos = lanczosExtremes(hessianVectorProduct(context), normalVector(random, context.x.length), Math.max(1, Math.min(lanczosSteps, context.x.length)));
-  const products = (context.calls.counts.gradient - before) / 2;
   if (lanczos === null) return null;
+  const error = productError(context, lanczos.dominantVector);
+  const products = (context.calls.counts.gradient - before) / 2;
   const secantMax = secantSlopes(context, random);
   const estimate: ProbeSmoothness = { lambdaMax: lanczos.lambdaMax, lambdaMin: lanczos.lambdaMin, ritzValues: lanczos.ritzValues, secantMax, hessianVectorProducts: Math.ceil(products) };
+  if (error !== null) estimate.productError = error;
   // Unknown (a product failed at the first step) stays absent rather than Infinity, which JSON cannot carry.
   if (Number.isFinite(lanczos.lambdaMaxResidual)) estimate.lambdaMaxResidual = lanczos.lambdaMaxResidual;
   if (Number.isFinite(lanczos.lambdaMinResidual)) estimate.lambdaMinResidual = lanczos.lambdaMinResidual;
@@ -71,8 +87,8 @@ export function probeSmoothness(context: ProbeContext, random: Random, lanczosSt
 }
 
 /**
- * Residuals below this share of a Ritz value are taken as converged and not added to L̂: a
- * far smaller residual than any rate verdict can feel (common practice).
+ * Residuals and product errors below this share of a Ritz value are not added to L̂: far smaller
+ * than any rate verdict can feel (common practice).
  */
 const unconvergedShare = 1e-6;
 
@@ -88,13 +104,17 @@ export function smoothnessOf(s: ProbeSmoothness): SmoothnessEstimate | null {
   let lipschitz = 0;
   let lipschitzResidual: number | undefined;
   let widened = false;
-  // Each candidate for L̂ carries the residual of its Ritz value; a secant slope has none.
-  for (const [value, residual] of [[Math.abs(s.lambdaMax), s.lambdaMaxResidual], [Math.abs(s.lambdaMin), s.lambdaMinResidual], [s.secantMax, undefined]] as const) {
-    const open = residual !== undefined && residual > unconvergedShare * value ? residual : 0;
-    if (value + open > lipschitz) {
-      lipschitz = value + open;
+  let productError: number | undefined;
+  const beyondShare = (amount: number | undefined, value: number) => (amount !== undefined && amount > unconvergedShare * value ? amount : 0);
+  // Each Lanczos candidate for L̂ carries the residual of its Ritz value and the products' error; a secant slope has neither.
+  for (const [value, residual, products] of [[Math.abs(s.lambdaMax), s.lambdaMaxResidual, s.productError], [Math.abs(s.lambdaMin), s.lambdaMinResidual, s.productError], [s.secantMax, undefined, undefined]] as const) {
+    const open = beyondShare(residual, value);
+    const inexact = beyondShare(products, value);
+    if (value + open + inexact > lipschitz) {
+      lipschitz = value + open + inexact;
       lipschitzResidual = residual;
       widened = open > 0;
+      productError = inexact > 0 ? inexact : undefined;
     }
   }
   // No curvature at all (e.g. a linear f): no step size follows from it.
@@ -110,5 +130,6 @@ export function smoothnessOf(s: ProbeSmoothness): SmoothnessEstimate | null {
   if (lipschitzResidual !== undefined) estimate.lipschitzResidual = lipschitzResidual;
   if (s.lambdaMinResidual !== undefined) estimate.muResidual = s.lambdaMinResidual;
   if (widened) estimate.widened = true;
+  if (productError !== undefined) estimate.productError = productError;
   return estimate;
 }

@@ -1,7 +1,7 @@
 // Learning-rate verdicts from the local curvature for gradient descent w ← w − α∇f(w):
 // α ≤ 1/L̂ safe, α ≥ 2/λ⁺ divergent along the steepest positive curvature λ⁺ (on the
 // quadratic model; Nocedal & Wright 2006, §3.3; common practice), confirmed by short runs.
-import { formatValue } from './format';
+import { formatBound, formatValue } from './format';
 import type { DeclaredRate, DescentRun, Finding, LearningRateVerdict, RateStatus, SmoothnessEstimate } from './types';
 import { CheckStopped, type UserCalls } from './userCalls';
 
@@ -59,7 +59,11 @@ export function reviewLearningRate(declared: DeclaredRate, smoothness: Smoothnes
   const divergence = smoothness.divergenceStep === null
     ? 'no positive curvature found, so no divergence threshold'
     : `divergence at 2/λ⁺ = ${formatValue(smoothness.divergenceStep)}, λ⁺ the largest positive curvature`;
-  const widenedNote = smoothness.widened ? ', widened by the residual of a Lanczos estimate that had not converged' : '';
+  const widenings = [
+    ...(smoothness.widened ? ['the residual of a Lanczos estimate that had not converged'] : []),
+    ...(smoothness.productError !== undefined ? [`the Hessian-vector products' error (${formatBound(smoothness.productError)}, from two step sizes)`] : []),
+  ];
+  const widenedNote = widenings.length > 0 ? `, widened by ${widenings.join(' and ')}` : '';
   const bounds = `1/L̂ = ${formatValue(smoothness.safeStep)} with L̂ = ${lipschitz}${widenedNote}, ${divergence}, near the probes; ${localNote}${momentumNote}`;
   if (status === 'aggressive') {
     findings.push({ code: 'rate-aggressive', severity: 'warning', subject: 'learningRate', message: `learning rate ${name} = ${formatValue(rate)} is above the safe step but below the divergence threshold (${bounds})` });

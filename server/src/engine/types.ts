@@ -216,8 +216,13 @@ export interface ProbeReport {
   point: number[];
   dimension: number;
   value: number;
-  mode: 'full' | 'directional';
-  /** Every component in full mode; the localised ones in directional mode. */
+  /**
+   * full: every component; directional: random directions, then the wrong components located;
+   * spot: where an earlier probe established the gradient, one random direction and the
+   * components no earlier probe confirmed.
+   */
+  mode: 'full' | 'directional' | 'spot';
+  /** Every component in full mode; the localised ones in directional mode; the open ones in spot mode. */
   components: ComponentCheck[];
   directions: DirectionalCheck[];
   /** Estimated relative noise level of f near the probe (Moré & Wild). */
@@ -234,6 +239,8 @@ export interface ProbeReport {
     /** Lanczos residual ‖Hy − θy‖ of the λmax and λmin Ritz pairs: an eigenvalue lies within it of each. */
     lambdaMaxResidual?: number;
     lambdaMinResidual?: number;
+    /** |yᵀH_t y − yᵀH_2t y| for the dominant Ritz vector y: the error of the products at step t. */
+    productError?: number;
   } | null;
   descent: DescentRun[];
 }
@@ -270,6 +277,8 @@ export interface SmoothnessEstimate {
   divergenceStep: number | null;
   /** L̂ includes the residual of an unconverged Lanczos estimate. */
   widened?: boolean;
+  /** L̂ includes this error of the Hessian-vector products, measured with two step sizes. */
+  productError?: number;
 }
 
 export interface LearningRateVerdict {

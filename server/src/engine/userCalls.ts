@@ -40,17 +40,20 @@ export interface UserCalls {
   readonly warnings: Finding[];
   /** Calls of the objective and the gradient so far. */
   made(): number;
-  /** Mean clock time of one call so far (objective and gradient together), 0 before any. */
-  meanCallMs(): number;
+  /** Mean clock time of one call so far (of `which`, else of both together), 0 before any. */
+  meanCallMs(which?: 'objective' | 'gradient'): number;
   /** Clock time left in the budget; Infinity without one. */
   remainingMs(): number;
 }
 
 export function createUserCalls(fns: PairFunctions, dimension: number, budget: CallBudget = { clock: () => 0, endsAt: null }): UserCalls {
   const counts = { objective: 0, gradient: 0 };
-  let spentMs = 0;
+  const spentMs = { objective: 0, gradient: 0 };
   const made = () => counts.objective + counts.gradient;
-  const meanCallMs = () => (made() > 0 ? spentMs / made() : 0);
+  const meanCallMs = (which?: 'objective' | 'gradient') => {
+    const calls = which ? counts[which] : made();
+    return calls > 0 ? (which ? spentMs[which] : spentMs.objective + spentMs.gradient) / calls : 0;
+  };
   const remainingMs = () => (budget.endsAt === null ? Number.POSITIVE_INFINITY : budget.endsAt - budget.clock());
   const warnings: Finding[] = [];
   const mutationSeen = { objective: false, gradient: false };
@@ -64,12 +67,12 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
     }
     // A call expected to end past the budget is not started.
     const started = budget.clock();
-    if (budget.endsAt !== null && budget.endsAt - started < meanCallMs()) throw new BudgetSpent();
+    if (budget.endsAt !== null && budget.endsAt - started < meanCallMs(counts[which] > 0 ? which : undefined)) throw new BudgetSpent();
     counts[which]++;
     let result: unknown;
     try {
       result = which === 'objective' ? fns.objective(argument as Float64Array) : fns.gradient(argument as Float64Array);
-      spentMs += Math.max(0, budget.clock() - started);
+      spentMs[which] += Math.max(0, budget.clock() - started);
     } catch (err) {
       const thrown = describeThrown(err);
       const finding = makeFinding('runtime-error', which, `the ${which} threw at ${describeSite(site)}: ${thrown.text}`, site);

@@ -93,7 +93,7 @@ const severity = oneOf(severities);
 const code = oneOf(allFindingCodes);
 const subject = oneOf(wordsOf<FindingSubject>({ objective: true, gradient: true, learningRate: true, probe: true, recipe: true }));
 const rateStatus = oneOf(wordsOf<RateStatus>({ safe: true, aggressive: true, divergent: true }));
-const probeMode = oneOf(wordsOf<ProbeReport['mode']>({ full: true, directional: true }));
+const probeMode = oneOf(wordsOf<ProbeReport['mode']>({ full: true, directional: true, spot: true }));
 const runLabel = oneOf(wordsOf<DescentRun['label']>({ declared: true, safe: true, limit: true }));
 
 const messageText = textUpTo(reportLimits.messageLength);
@@ -130,7 +130,7 @@ const descentRun = objectOf<DescentRun>({ label: runLabel, rate: measurement, va
 
 const probeSmoothness = objectOf<NonNullable<ProbeReport['smoothness']>>(
   { lambdaMax: measurement, lambdaMin: measurement, ritzValues: numbers, secantMax: measurement, hessianVectorProducts: count },
-  { lambdaMaxResidual: measurement, lambdaMinResidual: measurement },
+  { lambdaMaxResidual: measurement, lambdaMinResidual: measurement, productError: measurement },
 );
 
 const probeReport = objectOf<ProbeReport>(
@@ -176,7 +176,7 @@ const diagnosis: Reader<Diagnosis> = (value, at) => diagnosisOfKind[diagnosisKin
 
 const smoothnessEstimate = objectOf<SmoothnessEstimate>(
   { lipschitz: measurement, mu: measurement, kappa: nullOr(measurement), safeStep: measurement, divergenceStep: nullOr(measurement) },
-  { lipschitzResidual: measurement, muResidual: measurement, widened: boolean },
+  { lipschitzResidual: measurement, muResidual: measurement, widened: boolean, productError: measurement },
 );
 
 const learningRateVerdict = objectOf<LearningRateVerdict>(
