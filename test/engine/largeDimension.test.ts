@@ -64,7 +64,7 @@ describe('large dimension', () => {
     // difference in each wrong sub-pool (2): 8, or 13 when both share a sub-pool and it
     // splits again. Bisection of index ranges needs at least 2·⌈log2 20000⌉ = 30 range tests.
     const finding = report.findings.find((f) => f.code === 'gradient-mismatch')!;
-    const [, pooled, coordinate] = /located by (\d+) pooled directional and (\d+) coordinate/.exec(finding.message)!.map(Number);
+    const [, pooled, coordinate] = /Located by (\d+) pooled directional and (\d+) coordinate/.exec(finding.message)!.map(Number);
     assert.ok(pooled === 8 || pooled === 13, finding.message);
     assert.equal(coordinate, 2);
   });
@@ -80,7 +80,7 @@ describe('large dimension', () => {
     const report = checkPair({ objective: noisy, gradient: gradientWith(new Map([[777, (g) => 3 * g]])), makeVector: makeFloat64 }, [], { dimension: 10000, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
     assert.deepEqual(report.diagnosis, { kind: 'subset', components: [777] });
     assert.ok(report.probes.some((p) => p.components.length === 1 && p.components[0].index === 777 && p.components[0].mismatch));
-    const located = report.findings.map((f) => /located by (\d+) pooled/.exec(f.message)).find((m) => m !== null)!;
+    const located = report.findings.map((f) => /Located by (\d+) pooled/.exec(f.message)).find((m) => m !== null)!;
     assert.ok(Number(located[1]) > 2, 'more than the whole pool and one weighted difference');
   });
 

@@ -3,7 +3,8 @@ import * as assert from 'node:assert/strict';
 import { test } from 'node:test';
 import type { DocumentCheck, PairOutcome } from '../../server/src/check/checkDocument';
 import { discoverPairs } from '../../server/src/discovery/discover';
-import type { PairReport, ProbeReport } from '../../server/src/engine/types';
+import { checkPair } from '../../server/src/engine/checkPair';
+import { defaultCheckOptions, type PairReport, type ProbeReport } from '../../server/src/engine/types';
 import { lensTitle, pairLenses } from '../../server/src/lsp/codeLens';
 import { toDiagnostics } from '../../server/src/lsp/diagnostics';
 import { gradientPatch, type FixableDiagnosis } from '../../server/src/lsp/gradientPatch';
@@ -119,7 +120,7 @@ test('per-probe mismatches merge into one diagnostic with the worst probe; runti
   const diagnostics = toDiagnostics(check, { uri: 'file:///w/fit.ts', text: pairText, relatedInformation: true });
   assert.equal(diagnostics.length, 2);
   const [merged, thrown] = diagnostics;
-  assert.equal(merged.message, 'fitGrad disagrees with central differences of fit: sign flipped. At probe 2, component 0: analytic 48, numerical -48 ± 1e-12. Seen at 2 of 2 probes.');
+  assert.equal(merged.message, 'fitGrad disagrees with central differences of fit at probe 2: sign flipped. Component 0: analytic 48, numerical -48 ± 1e-12. Seen at 2 of 2 probes.');
   assert.deepEqual(merged.range, { start: { line: 5, character: 16 }, end: { line: 5, character: 23 } });
   assert.deepEqual(merged.relatedInformation?.map((r) => [r.message, r.location.range.start.line]), [['objective fit', 4], ['probe 2', 2]]);
   assert.deepEqual(merged.data, { objective: 'fit' });
@@ -175,4 +176,17 @@ test('the guessed @probe takes the largest literal index, into the JSDoc or a ne
   const unknown = insert('// header\nexport function f(x: number[]) { return x.reduce((s, v) => s + v, 0); }\n' + grad);
   assert.equal(unknown.dimension, 3);
   assert.match(unknown.text, /^\/\/ header\n\/\*\* @probe \[0\.5, 0\.5, 0\.5\] \*\/\nexport function f/);
+});
+
+test('the CLI and the editor word a mismatch alike: the engine\'s finding and the diagnostic differ only by the names', () => {
+  // f = ½(x₀² + x₁² + x₂²) with gradient 2x: a factor of 2, the same error in every component.
+  for (const [gradient, shape] of [[(x: ArrayLike<number>) => [2 * x[0], 2 * x[1], 2 * x[2]], /off by a constant factor \(2× the true gradient\)/], [(x: ArrayLike<number>) => [-x[0], -x[1], -x[2]], /sign flipped/]] as const) {
+    const checked = checkPair({ objective: (x) => 0.5 * (x[0] ** 2 + x[1] ** 2 + x[2] ** 2), gradient, makeVector: (v) => Array.from(v) }, [[1, 2, 3]], { dimension: null, learningRate: null, options: defaultCheckOptions });
+    const cli = checked.findings.find((f) => f.code === 'gradient-mismatch')!.message;
+    assert.match(cli, shape);
+    const [editor] = toDiagnostics({ fileName: '/w/fit.ts', pairs: [outcomeOf(pairText, checked)], fileFindings: [], skipped: [] }, { uri: 'file:///w/fit.ts', text: pairText, relatedInformation: false });
+    assert.equal(editor.message, cli.replace('the gradient disagrees with central differences', 'fitGrad disagrees with central differences of fit'));
+    const outcome = outcomeOf(pairText, checked);
+    assert.match(hoverMarkdown(outcome.pair, outcome, false), shape);
+  }
 });

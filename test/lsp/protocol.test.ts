@@ -64,7 +64,7 @@ describe('a client that declares nothing and sends no settings', () => {
     assert.match(messageOf(sign), /sign flipped/);
     assert.match(messageOf(sign), /analytic .*numerical/);
     // The check stops at the first probe with a mismatch, so there is no tally of probes.
-    assert.match(messageOf(sign), /At probe 1, /);
+    assert.match(messageOf(sign), /at probe 1: sign flipped\. Component 0: /);
     assert.doesNotMatch(messageOf(sign), /Seen at/);
     assert.equal(sign.relatedInformation, undefined, 'no related information unless the client declares it');
     const subset = diagnostics.find((d) => d !== sign)!;
@@ -124,7 +124,7 @@ describe('a full client', () => {
     const mismatch = diagnostics.find((d) => d.code === 'gradient-mismatch')!;
     assert.deepEqual(mismatch.range, rangeOf(text, 'demandCurveLossGradient'));
     assert.match(messageOf(mismatch), /0\.5× the true gradient/);
-    assert.match(messageOf(mismatch), /At probe 1, .*\.$/);
+    assert.match(messageOf(mismatch), /at probe 1: .*\. Component 0: .*\.$/);
     const divergent = diagnostics.find((d) => d.code === 'rate-divergent')!;
     assert.equal(divergent.severity, 1);
     assert.deepEqual(divergent.range, rangeOf(text, 'splitLearningRate'));

@@ -110,18 +110,3 @@ export function diagnoseDirections(directions: DirectionalCheck[]): Diagnosis | 
   const others = directions.filter((d) => !d.mismatch && !d.undecided);
   return constantRatio(mismatched, others);
 }
-
-export function describeDiagnosis(diagnosis: Diagnosis): string {
-  switch (diagnosis.kind) {
-    case 'sign':
-      return 'the gradient has the opposite sign of the central differences';
-    case 'factor':
-      return `the gradient is ${diagnosis.factor}× the central differences`;
-    case 'permutation':
-      return `components look permuted (analytic i holds the derivative of j): ${diagnosis.pairs.map(([a, b]) => `${a}→${b}`).join(', ')}`;
-    case 'subset':
-      return `${diagnosis.components.length === 1 ? 'component' : 'components'} ${diagnosis.components.join(', ')} ${diagnosis.components.length === 1 ? 'is' : 'are'} wrong`;
-    case 'unknown':
-      return 'the wrong components could not be located';
-  }
-}

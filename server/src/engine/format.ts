@@ -26,3 +26,13 @@ export function trimExponent(text: string): string {
   const trimmed = mantissa.includes('.') ? mantissa.replace(/0+$/, '').replace(/\.$/, '') : mantissa;
   return `${trimmed}e${exponent.replace('+', '')}`;
 }
+
+/** A figure for a card or a lens: three significant digits, exponent form when very large or small. */
+export function shortNumber(x: number | null | undefined, digits = 3): string {
+  if (x === null || x === undefined) return '—';
+  if (!Number.isFinite(x)) return String(x);
+  if (x === 0) return '0';
+  const magnitude = Math.abs(x);
+  if (magnitude >= 1e4 || magnitude < 1e-3) return Number(x.toPrecision(digits)).toExponential().replace('e+', 'e');
+  return String(Number(x.toPrecision(digits)));
+}

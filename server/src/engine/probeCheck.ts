@@ -1,9 +1,10 @@
 // The gradient check at one probe: value, gradient, repeatability, noise, then
 // the full or directional comparison, its diagnosis and its findings.
 import { studySteps } from './differences';
-import { describeDiagnosis, diagnoseComponents, diagnoseDirections } from './diagnosis';
+import { diagnoseComponents, diagnoseDirections } from './diagnosis';
+import { mismatchMessage } from './wording';
 import { checkRandomDirections, type DirectionalResult } from './directionalCheck';
-import { formatBound, formatList, formatValue } from './format';
+import { formatList } from './format';
 import { checkEveryComponent, type FullCheckResult } from './fullCheck';
 import { localiseWrongComponents } from './localise';
 import { estimateNoise } from './noise';
@@ -158,10 +159,7 @@ function runFull(outcome: ProbeOutcome): void {
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
   if (!outcome.mismatch) return;
   outcome.diagnosis = diagnoseComponents(full.components, !full.cut);
-  const shape = outcome.diagnosis ? `${describeDiagnosis(outcome.diagnosis)}. ` : '';
-  const finding = makeFinding('gradient-mismatch', 'gradient', `gradient disagrees with central differences at probe ${outcome.context.probeIndex + 1}: ${shape}${describeComponents(mismatched)}`, { probeIndex: outcome.context.probeIndex, point: 'the probe' });
-  finding.components = mismatched.map((c) => c.index);
-  outcome.findings.push(finding);
+  outcome.findings.push(mismatchFinding(outcome, mismatched.map((c) => c.index)));
 }
 
 function runDirectional(outcome: ProbeOutcome, count: number, random: Random): void {
@@ -178,24 +176,21 @@ function runDirectional(outcome: ProbeOutcome, count: number, random: Random): v
   report.maxRelError = largestRelError(directional.directions);
   if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, []));
   if (!outcome.mismatch) return;
-  const example = mismatched[0];
-  let text = `gradient disagrees with directional central differences at probe ${context.probeIndex + 1} along ${mismatched.length} of ${directional.directions.length} random directions (e.g. ∇f·v = ${formatValue(example.analytic)}, numerical ${formatValue(example.numerical)} ± ${formatBound(example.errorBound)})`;
   outcome.diagnosis = diagnoseDirections(directional.directions);
-  let components: number[] = [];
-  if (outcome.diagnosis) {
-    text += `: ${describeDiagnosis(outcome.diagnosis)}`;
-  } else {
+  if (!outcome.diagnosis) {
     const found = localiseWrongComponents(context, random, localisationBudget);
     report.components = found.components.map(sanitiseComponent);
-    components = found.components.map((c) => c.index);
+    report.localisation = { pooledDifferences: found.pooledDifferences, coordinateDifferences: found.coordinateDifferences, incomplete: found.incomplete };
     outcome.diagnosis = diagnoseComponents(found.components, false) ?? { kind: 'unknown' };
-    text += `: ${describeDiagnosis(outcome.diagnosis)}`;
-    if (found.components.length > 0) text += `. ${describeComponents(found.components)}`;
-    text += ` (located by ${found.pooledDifferences} pooled directional and ${found.coordinateDifferences} coordinate differences${found.incomplete ? '; the search stopped before every discrepancy was explained, so more components may be wrong' : ''})`;
   }
-  const finding = makeFinding('gradient-mismatch', 'gradient', text, { probeIndex: context.probeIndex, point: 'the probe' });
+  outcome.findings.push(mismatchFinding(outcome, report.components.map((c) => c.index)));
+}
+
+function mismatchFinding(outcome: ProbeOutcome, components: number[]): Finding {
+  const { probeIndex } = outcome.context;
+  const finding = makeFinding('gradient-mismatch', 'gradient', mismatchMessage(outcome.report, probeIndex, outcome.diagnosis), { probeIndex, point: 'the probe' });
   if (components.length > 0) finding.components = components;
-  outcome.findings.push(finding);
+  return finding;
 }
 
 function runSpot(outcome: ProbeOutcome, components: number[], random: Random): void {
@@ -238,12 +233,6 @@ function classifyProbe(outcome: ProbeOutcome, checks: Array<ComponentCheck | Dir
   outcome.stationary = zeroWithinBounds && outcome.report.noise <= noticeableNoise;
   if (outcome.stationary) for (const c of checks) c.undecided = 'stationary';
   else outcome.noisy = true;
-}
-
-function describeComponents(components: ComponentCheck[], limit = 4): string {
-  const parts = components.slice(0, limit).map((c) => `component ${c.index}: analytic ${formatValue(c.analytic)}, numerical ${formatValue(c.numerical)} ± ${formatBound(c.errorBound)}`);
-  if (components.length > limit) parts.push(`and ${components.length - limit} more`);
-  return parts.join('; ');
 }
 
 function nonSmoothFinding(outcome: ProbeOutcome, components: number[]): Finding {

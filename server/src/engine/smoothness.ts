@@ -74,9 +74,9 @@ function productError(context: ProbeContext, y: Float64Array): number | null {
 export function probeSmoothness(context: ProbeContext, random: Random, lanczosSteps: number): ProbeSmoothness | null {
   const before = context.calls.counts.gradient;
   const lanczos = lanczosExtremes(hessianVectorProduct(context), normalVector(random, context.x.length), Math.max(1, Math.min(lanczosSteps, context.x.length)));
+  const products = (context.calls.counts.gradient - before) / 2;
   if (lanczos === null) return null;
   const error = productError(context, lanczos.dominantVector);
-  const products = (context.calls.counts.gradient - before) / 2;
   const secantMax = secantSlopes(context, random);
   const estimate: ProbeSmoothness = { lambdaMax: lanczos.lambdaMax, lambdaMin: lanczos.lambdaMin, ritzValues: lanczos.ritzValues, secantMax, hessianVectorProducts: Math.ceil(products) };
   if (error !== null) estimate.productError = error;

@@ -225,6 +225,8 @@ export interface ProbeReport {
   /** Every component in full mode; the localised ones in directional mode; the open ones in spot mode. */
   components: ComponentCheck[];
   directions: DirectionalCheck[];
+  /** How the wrong components were located after random directions disagreed (directional mode). */
+  localisation?: { pooledDifferences: number; coordinateDifferences: number; incomplete: boolean };
   /** Estimated relative noise level of f near the probe (Moré & Wild). */
   noise: number;
   maxRelError: number;
@@ -235,6 +237,7 @@ export interface ProbeReport {
     /** Ritz values of the final Lanczos tridiagonal matrix, ascending. */
     ritzValues: number[];
     secantMax: number;
+    /** Products the Lanczos iteration made; two more measure their error (productError). */
     hessianVectorProducts: number;
     /** Lanczos residual ‖Hy − θy‖ of the λmax and λmin Ritz pairs: an eigenvalue lies within it of each. */
     lambdaMaxResidual?: number;

@@ -4,9 +4,8 @@ import { DiagnosticSeverity, type Diagnostic, type DiagnosticRelatedInformation,
 import { findingSpan, sameFile, type DocumentCheck, type PairOutcome } from '../check/checkDocument';
 import { findingHelpUrl } from '../check/codes';
 import type { SourceSpan } from '../discovery/types';
-import { formatBound, formatValue } from '../engine/format';
 import type { Finding, Severity } from '../engine/types';
-import { describeDiagnosis } from '../shared/wording';
+import { mismatchMessage } from '../engine/wording';
 
 export const diagnosticSource = 'slopecheck';
 
@@ -29,9 +28,6 @@ const severities: Record<Severity, DiagnosticSeverity> = {
   info: DiagnosticSeverity.Information,
 };
 
-/** Most component values shown in one message. */
-const shownComponents = 4;
-
 export function toDiagnostics(check: DocumentCheck, context: DiagnosticContext): Diagnostic[] {
   const diagnostics = check.fileFindings.map((finding) => diagnostic(finding, finding.message, toRange(finding.span)));
   for (const outcome of check.pairs) diagnostics.push(...pairDiagnostics(check.fileName, outcome, context));
@@ -48,7 +44,7 @@ function pairDiagnostics(fileName: string, outcome: PairOutcome, context: Diagno
   }
   return [...groups.values()].map(({ range, findings }) => {
     const lead = worstFinding(outcome, findings);
-    const message = lead.code === 'gradient-mismatch' ? mismatchMessage(outcome, lead, findings) : withRepeats(lead.message, findings, outcome);
+    const message = lead.code === 'gradient-mismatch' ? mismatchDiagnostic(outcome, lead, findings) : withRepeats(lead.message, findings, outcome);
     const result = diagnostic(lead, message, range);
     result.data = { objective: outcome.pair.objective.name } satisfies DiagnosticData;
     if (context.relatedInformation) {
@@ -93,24 +89,13 @@ function worstFinding(outcome: PairOutcome, findings: Finding[]): Finding {
   return findings.reduce((a, b) => (errorAt(b) > errorAt(a) ? b : a));
 }
 
-/** The worst probe's details, the diagnosed shape, and how many probes saw it. */
-function mismatchMessage(outcome: PairOutcome, worst: Finding, findings: Finding[]): string {
+/** The worst probe's mismatch in the user's names, and how many probes saw it. */
+function mismatchDiagnostic(outcome: PairOutcome, worst: Finding, findings: Finding[]): string {
   const { pair, report } = outcome;
   const probe = worst.probeIndex === undefined ? undefined : report.probes[worst.probeIndex];
-  const gradient = pair.gradient?.name ?? `the gradient of ${pair.objective.name}`;
-  const head = `${gradient} disagrees with central differences of ${pair.objective.name}: ${describeDiagnosis(report.diagnosis)}.`;
-  const wrong = probe?.components.filter((c) => c.mismatch) ?? [];
-  const details =
-    probe && wrong.length > 0
-      ? `At probe ${(worst.probeIndex ?? 0) + 1}, ` +
-        wrong
-          .slice(0, shownComponents)
-          .map((c) => `component ${c.index}: analytic ${formatValue(c.analytic)}, numerical ${formatValue(c.numerical)} ± ${formatBound(c.errorBound)}`)
-          .join('; ') +
-        (wrong.length > shownComponents ? `; and ${wrong.length - shownComponents} more` : '') +
-        '.'
-      : worst.message;
-  return `${head} ${details}${seenAt(findings, outcome)}`;
+  if (!probe) return withRepeats(worst.message, findings, outcome);
+  const names = { gradient: pair.gradient?.name ?? `the gradient of ${pair.objective.name}`, objective: pair.objective.name };
+  return `${mismatchMessage(probe, worst.probeIndex!, report.diagnosis, names)}${seenAt(findings, outcome)}`;
 }
 
 function withRepeats(message: string, findings: Finding[], outcome: PairOutcome): string {

@@ -147,7 +147,7 @@ const probeReport = objectOf<ProbeReport>(
     smoothness: nullOr(probeSmoothness),
     descent: listOf(descentRun, reportLimits.descentRuns),
   },
-  {},
+  { localisation: objectOf<NonNullable<ProbeReport['localisation']>>({ pooledDifferences: count, coordinateDifferences: count, incomplete: boolean }, {}) },
 );
 
 const finding = objectOf<Finding>(

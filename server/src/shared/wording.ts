@@ -1,7 +1,10 @@
 // The words and figures a user reads about a pair, one set for every place they appear
 // (diagnostics, hover, code lens, quick pick, status bar, report, CLI).
-import { formatList } from '../engine/format';
-import type { CheckPlan, Diagnosis, PairStatus } from '../engine/types';
+import type { CheckPlan, PairStatus } from '../engine/types';
+
+// Figures and the shape of an error are worded where the engine words its findings.
+export { shortNumber } from '../engine/format';
+export { describeDiagnosis } from '../engine/wording';
 
 /** Rounds a positive x down to `digits` significant figures: a step taken from it stays at or below x. */
 export function floorToSignificant(x: number, digits = 2): number {
@@ -12,15 +15,6 @@ export function floorToSignificant(x: number, digits = 2): number {
   return Number((units * scale).toPrecision(digits));
 }
 
-/** A figure for a card or a lens: three significant digits, exponent form when very large or small. */
-export function shortNumber(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined) return '—';
-  if (!Number.isFinite(x)) return String(x);
-  if (x === 0) return '0';
-  const magnitude = Math.abs(x);
-  if (magnitude >= 1e4 || magnitude < 1e-3) return Number(x.toPrecision(digits)).toExponential().replace('e+', 'e');
-  return String(Number(x.toPrecision(digits)));
-}
 
 /**
  * How the check calls a target, as the user would write it: `model.loss(x, trainX, trainY)`,
@@ -47,22 +41,6 @@ export function baseName(fileName: string): string {
   return fileName.split(/[\\/]/).pop() ?? fileName;
 }
 
-/** The shape of a wrong gradient in a few words. */
-export function describeDiagnosis(diagnosis: Diagnosis | null): string {
-  if (!diagnosis) return 'wrong';
-  switch (diagnosis.kind) {
-    case 'sign':
-      return 'sign flipped';
-    case 'factor':
-      return `off by a constant factor (${shortNumber(diagnosis.factor, 6)}× the true gradient)`;
-    case 'permutation':
-      return `components swapped (${diagnosis.pairs.map(([i, j]) => `${i} ↔ ${j}`).join(', ')})`;
-    case 'subset':
-      return `${diagnosis.components.length === 1 ? 'component' : 'components'} ${formatList(diagnosis.components, 6)} wrong`;
-    default:
-      return 'wrong, with no simple pattern';
-  }
-}
 
 export const verdictWords: Record<PairStatus, string> = {
   pass: 'gradient matches',

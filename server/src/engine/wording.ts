@@ -1,0 +1,67 @@
+// The words of a gradient mismatch, one text wherever it is read: the finding's message (CLI,
+// JSON, SARIF), the editor's diagnostic (with the user's names), the hover and the report (the
+// shape of the error). Everything is worded from a probe's report, so every reader gets the same.
+import { formatBound, formatList, formatValue, shortNumber } from './format';
+import type { ComponentCheck, Diagnosis, ProbeReport } from './types';
+
+/** The shape of a wrong gradient in a few words. */
+export function describeDiagnosis(diagnosis: Diagnosis | null): string {
+  if (!diagnosis) return 'wrong';
+  switch (diagnosis.kind) {
+    case 'sign':
+      return 'sign flipped';
+    case 'factor':
+      return `off by a constant factor (${shortNumber(diagnosis.factor, 6)}× the true gradient)`;
+    case 'permutation':
+      return `components swapped (${diagnosis.pairs.map(([i, j]) => `${i} ↔ ${j}`).join(', ')})`;
+    case 'subset':
+      return `${diagnosis.components.length === 1 ? 'component' : 'components'} ${formatList(diagnosis.components, 6)} wrong`;
+    default:
+      return 'wrong, with no simple pattern';
+  }
+}
+
+/** What the sentence calls the two functions: the user's names where the reader has them. */
+export interface MismatchNames {
+  gradient: string;
+  objective: string | null;
+}
+
+/** Inside the engine the functions have no names. */
+export const anonymousNames: MismatchNames = { gradient: 'the gradient', objective: null };
+
+/** Most wrong components shown with their figures. */
+const shownComponents = 4;
+
+/**
+ * The mismatch at one probe: where, the shape of the error, the wrong components with analytic
+ * and numerical values and the bound, and in directional mode how many random directions
+ * disagreed and how the wrong components were located.
+ */
+export function mismatchMessage(probe: ProbeReport, probeIndex: number, diagnosis: Diagnosis | null, names: MismatchNames = anonymousNames): string {
+  let head = `${names.gradient} disagrees with central differences${names.objective ? ` of ${names.objective}` : ''} at probe ${probeIndex + 1}`;
+  const directions = probe.directions.filter((d) => d.mismatch);
+  if (directions.length > 0) {
+    const [example] = directions;
+    head += ` along ${directions.length} of ${probe.directions.length} random ${probe.directions.length === 1 ? 'direction' : 'directions'} (e.g. ∇f·v = ${formatValue(example.analytic)}, numerical ${formatValue(example.numerical)} ± ${formatBound(example.errorBound)})`;
+  }
+  const sentences = [`${head}: ${describeDiagnosis(diagnosis)}.`];
+  const wrong = probe.components.filter((c) => c.mismatch);
+  if (wrong.length > 0) sentences.push(`${capitalised(describeComponents(wrong))}.`);
+  const located = probe.localisation;
+  if (located) {
+    const stopped = located.incomplete ? '; the search stopped before every discrepancy was explained, so more components may be wrong' : '';
+    sentences.push(`Located by ${located.pooledDifferences} pooled directional and ${located.coordinateDifferences} coordinate differences${stopped}.`);
+  }
+  return sentences.join(' ');
+}
+
+function describeComponents(components: ComponentCheck[]): string {
+  const parts = components.slice(0, shownComponents).map((c) => `component ${c.index}: analytic ${formatValue(c.analytic)}, numerical ${formatValue(c.numerical)} ± ${formatBound(c.errorBound)}`);
+  if (components.length > shownComponents) parts.push(`and ${components.length - shownComponents} more`);
+  return parts.join('; ');
+}
+
+function capitalised(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
