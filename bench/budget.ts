@@ -10,10 +10,14 @@ import { defaultSettings } from '../server/src/shared/settings';
 
 export interface CallsRow {
   n: number;
+  /** f + ∇f calls for the gradient verdict of a correct pair (no curvature). */
+  verdictCalls: number;
+  /** 4(2n + 1) + 40 up to n = 64, flat above. */
+  verdictTarget: number;
   /** f + ∇f calls of a whole check of a correct pair, with L̂ at one probe, no learning rate, no plots. */
   calls: number;
   textbook: number;
-  /** The target for a whole check: twice 4(2n + 1) + 40 up to n = 64, flat above. */
+  /** The target for a whole check: twice the verdict's. */
   target: number;
 }
 
@@ -57,9 +61,9 @@ const callsOf = (report: PairReport) => report.evaluations.objective + report.ev
 
 export function runBudget(log: (line: string) => void): BudgetResult {
   const calls = [2, 5, 10, 20, 50, 64, 100, 1000].map((n) => {
-    const { report } = run(n, 0, false, null, true);
-    const target = 2 * (4 * (2 * Math.min(n, 64) + 1) + 40);
-    return { n, calls: callsOf(report), textbook: 2 * n + 1, target };
+    const verdictTarget = 4 * (2 * Math.min(n, 64) + 1) + 40;
+    const verdictCalls = callsOf(run(n, 0, false, null, false).report);
+    return { n, verdictCalls, verdictTarget, calls: callsOf(run(n, 0, false, null, true).report), textbook: 2 * n + 1, target: 2 * verdictTarget };
   });
   log(`  budget: calls per check ${calls.map((r) => `n = ${r.n}: ${r.calls}`).join(', ')}`);
   const budgetMs = defaultSettings.timeoutMs;

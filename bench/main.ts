@@ -1,10 +1,11 @@
-// npm run bench: accuracy, smoothness, real code, calls and budget, scale and editor latency, then the report files.
-// Usage: node bench/run.mjs [accuracy] [smoothness] [realcode] [budget] [scale] [latency]   (default: all)
+// npm run bench: accuracy, smoothness, real code, calls and budget, the adversarial table, scale and editor latency, then the report files.
+// Usage: node bench/run.mjs [accuracy] [smoothness] [realcode] [budget] [adversarial] [scale] [latency]   (default: all)
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { repoRoot } from '../test/support/paths';
 import { runAccuracy } from './accuracy';
+import { runAdversarial } from './adversarial';
 import { runBudget } from './budget';
 import { runLatency } from './latency';
 import { runRealCode } from './realCode';
@@ -34,6 +35,7 @@ async function main(): Promise<void> {
     smoothness: null,
     realCode: null,
     budget: null,
+    adversarial: null,
     scale: null,
     latency: null,
   };
@@ -53,6 +55,10 @@ async function main(): Promise<void> {
   if (wants('budget')) {
     log('calls and budget…');
     results.budget = runBudget(log);
+  }
+  if (wants('adversarial')) {
+    log('adversarial cases…');
+    results.adversarial = runAdversarial(log);
   }
   if (wants('scale')) {
     log('scale…');

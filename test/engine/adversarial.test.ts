@@ -4,31 +4,17 @@
 // component can be decided, and is otherwise inconclusive, naming what stayed open and why.
 import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
-import { checkPair, type PairFunctions } from '../../server/src/engine/checkPair';
+import { checkPair } from '../../server/src/engine/checkPair';
 import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
+import { adversarialCases, altered, bowl, checkAt, checkSlow, diagonalQuadratic, pole, slowPair, type Gradient } from '../support/adversarial';
 import { brownBadlyScaled, makeArray } from '../support/problems';
 
-type Gradient = (x: ArrayLike<number>) => number[];
-
-function run(objective: PairFunctions['objective'], gradient: Gradient, probes: number[][]): PairReport {
-  return checkPair({ objective, gradient, makeVector: makeArray }, probes, { dimension: null, learningRate: null, options: defaultCheckOptions });
-}
-
-/** The same gradient with component `i` changed by `change`. */
-const altered = (g: Gradient, i: number, change: (v: number) => number): Gradient => (x) => {
-  const out = g(x);
-  out[i] = change(out[i]);
-  return out;
-};
+const run = (objective: (x: ArrayLike<number>) => number, gradient: Gradient, probes: number[][]) => checkAt(objective, gradient, probes);
 
 const findingOf = (report: PairReport, code: string) => report.findings.find((f) => f.code === code);
 
 describe('a pole inside the first difference step', () => {
-  // f = 1/x₀ + 1/x₁, ∇f = (−1/x₀², −1/x₁²) (elementary calculus, common practice). At
-  // (1e-4, 3e-4) a step relative to max(|xᵢ|, 1) reaches across the pole at 0.
-  const f = (x: ArrayLike<number>) => 1 / x[0] + 1 / x[1];
-  const g: Gradient = (x) => [-1 / x[0] ** 2, -1 / x[1] ** 2];
-  const probe = [[1e-4, 3e-4]];
+  const { f, g, probes: probe } = pole;
 
   test('the correct gradient passes, from steps that stay on one side of the pole', () => {
     const report = run(f, g, probe);
@@ -78,9 +64,7 @@ describe('a component far below the objective rounding', () => {
 });
 
 describe('stationary probes and exact zeros', () => {
-  // f = Σ (xᵢ − 1)², minimum at (1, 1, 1), where ∇f = 0 and 2∇f = 0 too (common practice).
-  const f = (x: ArrayLike<number>) => (x[0] - 1) ** 2 + (x[1] - 1) ** 2 + (x[2] - 1) ** 2;
-  const g: Gradient = (x) => Array.from(x, (v) => 2 * (v - 1));
+  const { f, g } = bowl;
   const doubled: Gradient = (x) => g(x).map((v) => 2 * v);
 
   test('at the minimum alone, neither the correct nor a doubled gradient passes: the probe is reported stationary', () => {
@@ -138,29 +122,7 @@ describe('large dimension (directional check)', () => {
 });
 
 describe('a time budget', () => {
-  // A clock that advances by `costMs(call number)` per call of either function: an objective of
-  // 50 ms per call, measured without waiting. f = Σ (i + 1)·cosh(0.3·xᵢ),
-  // ∇f = 0.3(i + 1)·sinh(0.3·xᵢ) (elementary calculus); `wrongComponent` flips one sign.
-  function slowPair(n: number, wrongComponent: number | null, costMs: (call: number) => number) {
-    const clock = { now: 0, calls: 0 };
-    const tick = () => (clock.now += costMs(clock.calls++));
-    const f = (x: ArrayLike<number>) => {
-      tick();
-      let s = 0;
-      for (let i = 0; i < n; i++) s += (i + 1) * Math.cosh(0.3 * x[i]);
-      return s;
-    };
-    const g = (x: ArrayLike<number>) => {
-      tick();
-      return Array.from({ length: n }, (_, i) => (i === wrongComponent ? -1 : 1) * 0.3 * (i + 1) * Math.sinh(0.3 * x[i]));
-    };
-    return { clock, fns: { objective: f, gradient: g, makeVector: makeArray } };
-  }
-  const check = (n: number, wrong: number | null, budgetMs: number, costMs: (call: number) => number = () => 50) => {
-    const { clock, fns } = slowPair(n, wrong, costMs);
-    const report = checkPair(fns, [], { dimension: n, learningRate: null, options: defaultCheckOptions, endsAt: budgetMs }, () => clock.now);
-    return { report, spentMs: clock.now };
-  };
+  const check = checkSlow;
   const budgetMessages = (report: PairReport) => report.findings.filter((f) => f.code === 'budget-spent').map((f) => f.message);
   const callsOf = (r: PairReport) => r.evaluations.objective + r.evaluations.gradient;
   // The cheapest honest check: a central difference per component, 2n + 1 calls (common practice);
@@ -305,15 +267,9 @@ describe('curvature and learning rates', () => {
     assert.match(report.findings.find((x) => x.code.startsWith('rate-'))!.message, /widened by the Hessian-vector products' error/);
   });
 
-  // ½xᵀAx with A diagonal: the eigenvalues are A's entries, and a rate α diverges on it exactly
-  // from 2/λmax (by hand). Crowded spectra slow Lanczos down (Golub & Van Loan 2013, §10.1.5, from memory).
   const quadratic = (diagonal: number[]) => {
-    const n = diagonal.length;
-    const f = (x: ArrayLike<number>) => { let s = 0; for (let i = 0; i < n; i++) s += 0.5 * diagonal[i] * x[i] ** 2; return s; };
-    const g: Gradient = (x) => Array.from({ length: n }, (_, i) => diagonal[i] * x[i]);
-    const probe = Array.from({ length: n }, (_, i) => 1 + 0.5 * Math.sin(3 * i));
-    return (rate: number, lanczosSteps = defaultCheckOptions.lanczosSteps) =>
-      checkPair({ objective: f, gradient: g, makeVector: makeArray }, [probe], withRate(rate, { ...defaultCheckOptions, lanczosSteps }));
+    const { f, g, probe } = diagonalQuadratic(diagonal);
+    return (rate: number, lanczosSteps = defaultCheckOptions.lanczosSteps) => checkAt(f, g, [probe], rate, { lanczosSteps });
   };
   const spectra = {
     'a cluster at the top': Array.from({ length: 50 }, (_, i) => (i < 40 ? 100 * (1 - 1e-3 * i) : 1 + i / 10)),
@@ -351,4 +307,14 @@ describe('curvature and learning rates', () => {
     assert.notEqual(report.learningRate?.status, 'safe');
     assert.match(report.findings.find((x) => x.code.startsWith('rate-'))!.message, /widened by the residual of a Lanczos estimate that had not converged/);
   });
+});
+
+describe('the adversarial table (bench/adversarial.ts prints it)', () => {
+  for (const c of adversarialCases) {
+    test(`${c.name}: ${c.status}${c.rate ? `, rate ${c.rate}` : ''}`, () => {
+      const report = c.run();
+      assert.equal(report.status, c.status, JSON.stringify(report.findings));
+      if (c.rate) assert.equal(report.learningRate?.status, c.rate);
+    });
+  }
 });
