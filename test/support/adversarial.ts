@@ -88,7 +88,7 @@ export function checkSlow(n: number, wrong: number | null, budgetMs: number, cos
 export interface AdversarialCase {
   name: string;
   /** What the case tries to provoke. */
-  trap: 'false pass' | 'false rate alarm' | 'rate called safe too soon' | 'lost to the time budget';
+  trap: 'false pass' | 'false alarm' | 'false rate alarm' | 'rate called safe too soon' | 'lost to the time budget';
   run(): PairReport;
   /** The pair verdict it must give. */
   status: PairStatus;
@@ -115,6 +115,14 @@ export const adversarialCases: AdversarialCase[] = [
     trap: 'false pass',
     run: () => checkAt((x) => x[0] ** 2 + Math.exp(x[1]), (x) => [2 * x[0], x[1] < 0 ? 2 * Math.exp(x[1]) : Math.exp(x[1])], [[1, 0.5], [0.3, -1], [2, 1]]),
     status: 'fail',
+  },
+  {
+    // Quiet at probe 1, rough (relative noise ~10⁻⁷) where x₀ > 1.5: a spot check there assumes probe 1's
+    // noise, so its mismatch must be checked again with the noise measured there before it counts.
+    name: 'noise only away from probe 1, correct',
+    trap: 'false alarm',
+    run: () => checkAt((x) => x[0] ** 2 + x[1] ** 2 + (x[0] > 1.5 ? 1e-6 * Math.sin(1e7 * x[0] + 3e7 * x[1]) : 0), (x) => [2 * x[0], 2 * x[1]], [[1, 1], [2, 0.5], [3, 2]]),
+    status: 'pass',
   },
   // f = x₀² + 50·x₁²: curvatures 2 and 100; 0.009 < 1/100.
   { name: 'x₀ ≈ 10⁶ beside x₁ ≈ 0.3, rate 0.009', trap: 'false rate alarm', run: () => checkAt((x) => x[0] ** 2 + 50 * x[1] ** 2, (x) => [2 * x[0], 100 * x[1]], [[1e6, 0.3]], 0.009), status: 'pass', rate: 'safe' },

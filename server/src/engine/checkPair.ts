@@ -3,7 +3,7 @@ import { emptyReport } from './emptyReport';
 import { undecidedWording } from './decision';
 import { formatBound, formatList } from './format';
 import { defaultDifferenceSettings } from './differences';
-import { buildStepStudy, checkProbe, type ProbeOutcome, type ProbeWork } from './probeCheck';
+import { buildStepStudy, carriedNoise, checkProbe, type ProbeOutcome, type ProbeWork } from './probeCheck';
 import type { ProbeContext } from './probeContext';
 import { createRandom } from './random';
 import { probesAroundStart } from './startProbes';
@@ -138,7 +138,7 @@ function expectedSpotCalls(work: Extract<ProbeWork, { mode: 'spot' }>): number {
 function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
   // The gradient verdict first, probe by probe while it keeps passing: a mismatch decides it.
   // Probe 1 is checked whole; the others are spot checks where probe 1 settled the gradient,
-  // and a spot check that finds a mismatch is checked again whole, with the noise measured there.
+  // and a spot check that finds a mismatch or a kink is checked again whole, with the noise measured there.
   const outcomes: ProbeOutcome[] = [];
   let cutShort = false;
   const randomsOf = (p: number) => [createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p)] as const;
@@ -157,9 +157,9 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
         cutShort = true;
         break;
       }
-      const carried = { absolute: first.context.noise, relative: first.report.noise };
-      let outcome = checkProbe(calls, points[p], p, work.mode === 'spot' ? carried : null, () => work, ...randomsOf(p));
-      if (outcome.mismatch && work.mode === 'spot') outcome = checkProbe(calls, points[p], p, null, () => whole, ...randomsOf(p));
+      let outcome = checkProbe(calls, points[p], p, work.mode === 'spot' ? carriedNoise(first.context) : null, () => work, ...randomsOf(p));
+      // The spot check assumed probe 1's noise: what it saw is only believed once measured here.
+      if ((outcome.mismatch || outcome.kink) && work.mode === 'spot') outcome = checkProbe(calls, points[p], p, null, () => whole, ...randomsOf(p));
       outcomes.push(outcome);
     }
     if (outcomes.some((o) => o.cut)) cutShort = true;

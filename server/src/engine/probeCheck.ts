@@ -132,6 +132,11 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
   return outcome;
 }
 
+/** The noise a spot check at another probe assumes: this probe's, absolute and relative to |f|. */
+export function carriedNoise(context: ProbeContext): CarriedNoise {
+  return { absolute: context.noise, relative: context.value !== 0 ? context.noise / Math.abs(context.value) : 0 };
+}
+
 /** The noise of f relative to |f(x)| (absolute where f(x) = 0), as the report shows it. */
 export function relativeNoise(context: ProbeContext): number {
   return context.value !== 0 ? context.noise / Math.abs(context.value) : context.noise;
