@@ -88,7 +88,7 @@ test('default parameter values need nothing; a missing value is an information f
 });
 
 test('a start point: a const named like a start, of any of the usual names', () => {
-  for (const name of ['x0', 'w0', 'theta0', 'p0', 'initialWeights', 'initGuess', 'startPose', 'guess', 'start']) {
+  for (const name of ['x0', 'w0', 'theta0', 'p0', 'initialWeights', 'initGuess', 'startPose', 'guess', 'start', 'qInit', 'poseStart']) {
     const text = source('export function f(x: number[]) { return x[0] ** 2; }', 'export function df(x: number[]) { return [2 * x[0]]; }', `const ${name} = [0.5];`);
     const pair = onlyPair(discoverPairs(text, 'start.ts'));
     assert.equal(pair.plan.start, name, name);
@@ -118,6 +118,10 @@ test('the point handed to an optimizer with the pair, or the initial point of a 
 
   const passedIn = source(...pair, 'function fit(from: number[]) {', '  const p = from.slice();', '  costPrime(p);', '}', 'export function main() { fit([5.5, 20]); }');
   assert.equal(onlyPair(discoverPairs(passedIn, 'o.ts')).plan.start, '[5.5, 20]');
+
+  // The gradient called inside an arrow of the update: the point is declared by the function around it.
+  const inArrow = source(...pair, 'const seed = [2, 2];', 'function fit() {', '  let p = seed.slice();', '  for (let k = 0; k < 5; k++) p = p.map((v, i) => v - 0.1 * costPrime(p)[i]);', '}');
+  assert.equal(onlyPair(discoverPairs(inArrow, 'o.ts')).plan.start, 'seed.slice()');
 });
 
 test('a start built from a function-local value cannot be evaluated, so none is taken', () => {

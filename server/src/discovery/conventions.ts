@@ -79,7 +79,7 @@ export const combinedGradientKeys: readonly string[] = ['gradient', 'grad', 'g',
 
 /** Names of a module-level const that holds a starting point. */
 export function isStartName(name: string): boolean {
-  return /^[A-Za-z]+_?0$/.test(name) || /^(init|initial|start)([A-Z_].*)?$/.test(name) || /^(guess|[a-z]\w*Guess)$/.test(name);
+  return /^[A-Za-z]+_?0$/.test(name) || /^(init|initial|start)([A-Z_].*)?$/.test(name) || /^(guess|[a-z]\w*(Guess|Init|Start))$/.test(name);
 }
 
 /** Names a learning rate goes by: a const (`lr`), or a field of an options object (`opts.lr`, `config.learningRate`). */

@@ -9,7 +9,7 @@ import { isStartName } from './conventions';
 import { collectBindings, unwrapParentheses, type ModuleBindings } from './exports';
 import { specifierNames, type SourceText } from './importers';
 import { pairFunctions, type PairMatch } from './pairing';
-import { enclosingFunction, localInitializer, looksLikePoint, moduleLevelText } from './references';
+import { declaringFunction, localInitializer, looksLikePoint, moduleLevelText } from './references';
 
 /** The namespace the hook imports the document under, in the importer's scope. */
 export const documentNamespace = '__slopecheckDocument';
@@ -108,7 +108,7 @@ export function readImporterInvocation(match: PairMatch, documentFile: string, e
 /** The importer's start: the initial value of the point its loop passes, or its one start-named const. */
 function importerStart(call: ts.CallExpression, bindings: ModuleBindings): string | null {
   const point = call.arguments[0] && unwrapParentheses(call.arguments[0]);
-  const fn = enclosingFunction(call);
+  const fn = point && ts.isIdentifier(point) ? declaringFunction(point) : undefined;
   if (point && ts.isIdentifier(point) && fn) {
     const initial = localInitializer(fn, point.text);
     const text = initial && looksLikePoint(initial, bindings) ? moduleLevelText(initial, bindings) : null;

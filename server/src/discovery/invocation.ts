@@ -11,7 +11,7 @@ import { unwrapParentheses, type FunctionNode, type ModuleBindings } from './exp
 import { pairFunctions, type PairMatch } from './pairing';
 import { readImporterInvocation, documentNamespace, type ImporterEntry } from './importerCalls';
 import type { SourceText } from './importers';
-import { callsOf, callsOfFunction, enclosingFunction, localInitializer, looksLikePoint, mentionsPair, moduleLevelText, pairSites } from './references';
+import { argumentsPassedFor, callsOf, declaringFunction, localInitializer, looksLikePoint, mentionsPair, moduleLevelText, pairSites } from './references';
 import { spanOfNode } from './spans';
 import { readTags } from './tags';
 import type { SourceSpan } from './types';
@@ -79,7 +79,7 @@ function readExtraArguments(sourceFile: ts.SourceFile, bindings: ModuleBindings,
     for (const call of callsOf(sourceFile, match.group, callable)) {
       const given = call.arguments.slice(1, 1 + extra.length);
       if (given.some(ts.isSpreadElement)) continue;
-      const values = given.map((argument) => moduleLevelArgument(sourceFile, argument, bindings));
+      const values = given.map((argument) => moduleLevelArgument(argument, bindings));
       if (values.some((value) => value === null)) continue;
       if (extra.some((_, index) => index >= values.length && !optional(index))) continue;
       invocation.extraArguments = values.map((value) => value!.text);
@@ -158,15 +158,16 @@ function linkedStarts(sourceFile: ts.SourceFile, bindings: ModuleBindings, match
   for (const site of pairSites(sourceFile, match)) {
     const node = site.node;
     if (site.kind === 'call') {
-      // A training loop: the point's own initial value in the function around the call.
+      // A training loop: the point's own initial value in the function that declares it (the
+      // call may sit in an arrow inside it: `w.map((v, i) => v - lr * grad(w)[i])`).
       const point = node.arguments[0] && unwrapParentheses(node.arguments[0]);
-      const fn = enclosingFunction(node);
-      if (point && ts.isIdentifier(point) && fn) {
-        const initial = localInitializer(fn, point.text);
+      if (point && ts.isIdentifier(point)) {
+        const fn = declaringFunction(point);
+        const initial = fn && localInitializer(fn, point.text);
         if (initial) add(initial);
         // `function fit(start) { let w = start.slice(); … }` called as `fit([5.5, 20])`: the caller's point.
         const source = initial ? copiedFrom(initial) : point;
-        if (source) for (const passed of passedFor(sourceFile, fn, source)) add(passed);
+        if (source) for (const passed of passedFor(source)) add(passed);
       }
     } else {
       for (const argument of node.arguments) if (!mentionsPair(argument, match)) add(argument);
@@ -175,28 +176,23 @@ function linkedStarts(sourceFile: ts.SourceFile, bindings: ModuleBindings, match
   return found;
 }
 
-/**
- * What the calls in this file pass for `name` when it is a parameter of `fn`: `function fit(run)`
- * called as `fit(coolingRun)` gives `coolingRun`. Empty when `name` is no parameter of `fn`.
- */
-function passedFor(sourceFile: ts.SourceFile, fn: ts.SignatureDeclaration, name: ts.Identifier): ts.Expression[] {
-  const index = fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === name.text);
-  if (index < 0) return [];
-  return callsOfFunction(sourceFile, fn).flatMap((call) => (call.arguments[index] ? [call.arguments[index]] : []));
+/** What the file's calls pass for `name` when a function around it takes it as a parameter. */
+function passedFor(name: ts.Identifier): ts.Expression[] {
+  const fn = declaringFunction(name);
+  return fn ? argumentsPassedFor(fn, name.text) : [];
 }
 
 /**
  * The module-level value an argument of a call stands for: the argument itself, or, when it is a
- * parameter of the function around the call (`function fit(run) { … grad(w, run) … }`), the first
+ * parameter of a function around the call (`function fit(run) { … grad(w, run) … }`), the first
  * module-level value a call of that function passes for it (`fit(coolingRun)`).
  */
-function moduleLevelArgument(sourceFile: ts.SourceFile, argument: ts.Expression, bindings: ModuleBindings): { text: string; node: ts.Node } | null {
+function moduleLevelArgument(argument: ts.Expression, bindings: ModuleBindings): { text: string; node: ts.Node } | null {
   const text = moduleLevelText(argument, bindings);
   if (text !== null) return { text, node: argument };
   const node = unwrapParentheses(argument);
-  const fn = enclosingFunction(node);
-  if (!ts.isIdentifier(node) || !fn) return null;
-  for (const passed of passedFor(sourceFile, fn, node)) {
+  if (!ts.isIdentifier(node)) return null;
+  for (const passed of passedFor(node)) {
     const passedText = moduleLevelText(passed, bindings);
     if (passedText !== null) return { text: passedText, node: passed };
   }

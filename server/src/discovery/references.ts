@@ -175,7 +175,8 @@ export function resolveNumber(expression: ts.Expression, bindings: ModuleBinding
     if (owner) {
       // A rate is a constant: a local that the function reassigns (a line search's `step /= 2`) is not one.
       if (isReassigned(owner, node.text)) return null;
-      const local = localInitializer(owner, node.text) ?? argumentOfFirstCall(owner, node.text);
+      // A parameter without a default: what the file's first call passes (`sgd(w0, 0.01)`).
+      const local = localInitializer(owner, node.text) ?? argumentsPassedFor(owner, node.text)[0];
       if (!local) return null;
       const literal = evaluateNumber(local);
       if (literal !== null) return { name: node.text, value: literal, nameNode: node, declaration: local.parent, valueNode: local };
@@ -202,18 +203,21 @@ export function resolveNumber(expression: ts.Expression, bindings: ModuleBinding
 }
 
 /** The innermost function around `node` that declares its name, or undefined when the name is module-level. */
-function declaringFunction(node: ts.Identifier): ts.SignatureDeclaration | undefined {
+export function declaringFunction(node: ts.Identifier): ts.SignatureDeclaration | undefined {
   for (let scope: ts.Node | undefined = node.parent; scope && !ts.isSourceFile(scope); scope = scope.parent) {
     if (ts.isFunctionLike(scope) && declaresName(scope, node.text)) return scope;
   }
   return undefined;
 }
 
-/** For a parameter without a default, what the file's first call of its function passes: `sgd(w0, 0.01)`. */
-function argumentOfFirstCall(fn: ts.SignatureDeclaration, name: string): ts.Expression | undefined {
+/**
+ * What the file's calls of `fn` pass for its parameter `name`, in document order: `function
+ * fit(run)` called as `fit(coolingRun)` gives `coolingRun`. Empty when `name` is no parameter.
+ */
+export function argumentsPassedFor(fn: ts.SignatureDeclaration, name: string): ts.Expression[] {
   const index = fn.parameters.findIndex((p) => ts.isIdentifier(p.name) && p.name.text === name);
-  if (index < 0) return undefined;
-  return callsOfFunction(fn.getSourceFile(), fn).find((call) => call.arguments.length > index)?.arguments[index];
+  if (index < 0) return [];
+  return callsOfFunction(fn.getSourceFile(), fn).flatMap((call) => (call.arguments[index] ? [call.arguments[index]] : []));
 }
 
 /** True when `fn` assigns to `name` (`=`, `+=`, `/=`, `++`, …) anywhere in its body. */
