@@ -105,3 +105,26 @@ test('untrusted: nothing runs and the summary says so; trust then checks', async
   await checks.settled('file:///d.ts');
   assert.equal(summaries.at(-1)?.state, 'done');
 });
+
+test("a hover's detailed check is stopped by an edit or a new check, so the pool is free for the document's own check", async () => {
+  const { checks, held, runsReach } = setup();
+  checks.opened('file:///a.ts', '/a.ts', text('one'), 1);
+  await runsReach(1);
+  held.runs[0].release();
+  await checks.settled('file:///a.ts');
+  const detailed = checks.detailedOutcome('file:///a.ts', 'f', { smoothness: true });
+  await runsReach(2);
+  assert.equal(held.runs[1].signal?.aborted, false);
+  checks.changed('file:///a.ts', text('two'), 2);
+  assert.equal(held.runs[1].signal?.aborted, true, 'the edit stops it');
+  assert.equal(await detailed, null);
+
+  const again = checks.detailedOutcome('file:///a.ts', 'f', { smoothness: true });
+  await runsReach(3);
+  checks.saved('file:///a.ts');
+  assert.equal(held.runs[2].signal?.aborted, true, 'the save\'s check stops it');
+  assert.equal(await again, null);
+  // The save's own check runs on (its bundle is the first one's, so the cache answers it).
+  await checks.settled('file:///a.ts');
+  assert.equal(checks.isChecking('file:///a.ts'), false);
+});

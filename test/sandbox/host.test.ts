@@ -116,6 +116,22 @@ ${replyWith('outcomes')}`,
     }
   });
 
+  test('a sandbox that cannot even be spawned is not tried again and again either', async () => {
+    // Its folder does not exist, so spawning fails with ENOENT before any process runs.
+    const pool = new SandboxPool({ sandboxScript: path.join(path.dirname(project.write('placeholder.js', '')), 'missing', 'sandbox.js') });
+    try {
+      const { report } = await runOn(pool);
+      assert.equal(report.findings[0].code, 'sandbox-crash');
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      const tried = pool.spawned;
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      assert.equal(pool.spawned, tried, 'no spare is tried while the pool sits idle');
+      assert.ok(tried <= 3, `${tried} processes tried: the check, its one resend and one spare`);
+    } finally {
+      pool.dispose();
+    }
+  });
+
   test('an out-of-memory death is told apart from other crashes', async () => {
     const script = standIn('oom.js', "process.stderr.write('FATAL ERROR: Reached heap limit Allocation failed - JavaScript heap out of memory\\n');\nprocess.exit(134);");
     const pool = new SandboxPool({ sandboxScript: script, memoryMb: 64 });

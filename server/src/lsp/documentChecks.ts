@@ -39,6 +39,8 @@ interface DocumentState {
   typingTimer: NodeJS.Timeout | null;
   /** Detailed outcomes asked for by hovers and the report, by text version, pair and options; emptied with each new check. */
   detailed: Map<string, Promise<PairOutcome | null>>;
+  /** Aborts the detailed checks still running (stopDetailed). */
+  detailedRuns: AbortController;
 }
 
 export class DocumentChecks {
@@ -52,6 +54,7 @@ export class DocumentChecks {
     const state: DocumentState = {
       uri, fileName, text, version, check: null, state: 'idle', generation: 0, running: null, finished: Promise.resolve(), typingTimer: null,
       detailed: new Map(),
+      detailedRuns: new AbortController(),
     };
     this.documents.set(uri, state);
     void this.start(state, false);
@@ -62,6 +65,9 @@ export class DocumentChecks {
     if (!state || (state.version === version && state.text === text)) return;
     state.text = text;
     state.version = version;
+    // Detailed outcomes of older text can no longer be asked for.
+    this.stopDetailed(state);
+    state.detailed.clear();
     const settings = this.host.settings();
     if (settings.checkWhen !== 'typing') return;
     // The running check is about text that no longer exists.
@@ -140,10 +146,12 @@ export class DocumentChecks {
   }
 
   private async checkDetailed(state: DocumentState, objective: string, options: CheckOptions): Promise<PairOutcome | null> {
+    const { signal } = state.detailedRuns;
     try {
-      const check = await checkDocument(state.text, state.fileName, this.host.runner, options, undefined, { onlyObjective: objective, ...this.host.workspace?.(state.fileName) });
-      return check.pairs.find((p) => p.pair.objective.name === objective) ?? null;
+      const check = await checkDocument(state.text, state.fileName, this.host.runner, options, signal, { onlyObjective: objective, ...this.host.workspace?.(state.fileName) });
+      return signal.aborted ? null : (check.pairs.find((p) => p.pair.objective.name === objective) ?? null);
     } catch (error) {
+      if (signal.aborted) return null;
       this.host.log(`the detailed check of ${objective} failed: ${error instanceof Error ? error.message : String(error)}`);
       return null;
     }
@@ -221,6 +229,16 @@ export class DocumentChecks {
     state.typingTimer = null;
     state.running?.abort();
     state.running = null;
+    this.stopDetailed(state);
+  }
+
+  /**
+   * Stops the detailed checks still running: the text changed, or a check of the document is
+   * starting, which must not wait in the sandbox pool behind a hover's check of up to its budget.
+   */
+  private stopDetailed(state: DocumentState): void {
+    state.detailedRuns.abort();
+    state.detailedRuns = new AbortController();
   }
 
   private summaryOf(state: DocumentState): DocumentSummaryParams {

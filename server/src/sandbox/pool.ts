@@ -142,6 +142,9 @@ export class SandboxPool {
     return this.slots.flatMap((slot) => (slot.child.pid === undefined ? [] : [slot.child.pid]));
   }
 
+  /** Test hook: processes started (or tried) so far. */
+  spawned = 0;
+
   /** Test hook: id of the spare process, once it has been started. */
   spareProcessId(): number | undefined {
     return this.spare()?.child.pid;
@@ -167,14 +170,20 @@ export class SandboxPool {
    * find a spare booting beside them.
    */
   private keepSpare(): void {
-    if (this.disposed || this.spareFailed || this.spare() !== undefined) return;
+    if (!this.wantsSpare()) return;
     if (this.queue.length > 0 || this.slots.some((slot) => slot.job !== null)) return;
     if (this.spareTimer) clearTimeout(this.spareTimer);
     this.spareTimer = setTimeout(() => {
       this.spareTimer = null;
-      if (!this.disposed && !this.spareFailed && this.spare() === undefined) setReferenced(this.spawn(), false);
+      // Asked again: the pool may have been disposed, or a spare started or failed, in the meantime.
+      if (this.wantsSpare()) setReferenced(this.spawn(), false);
     }, spareDelayMs);
     this.spareTimer.unref();
+  }
+
+  /** No spare is waiting, and one may be started. */
+  private wantsSpare(): boolean {
+    return !this.disposed && !this.spareFailed && this.spare() === undefined;
   }
 
   /** The process waiting for a first bundle, if one has been started. */
@@ -199,12 +208,10 @@ export class SandboxPool {
     child.on('message', (message: unknown) => this.onReply(slot, message));
     // 'close' waits for stderr to drain, so an out-of-memory message is seen before judging the exit.
     child.on('close', (code: number | null, signal: NodeJS.Signals | null) => this.onExit(slot, code, signal));
-    child.on('error', () => {
-      const job = this.retire(slot);
-      if (job) this.lost(job, this.crashFinding(null, null, slot.stderrTail));
-      this.dispatch();
-    });
+    // A process that could not be started (or signalled) is an exit like any other: the spare rule holds for it too.
+    child.on('error', () => this.onExit(slot, null, null));
     this.slots.push(slot);
+    this.spawned++;
     return slot;
   }
 
