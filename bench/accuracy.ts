@@ -4,6 +4,7 @@ import { checkPair } from '../server/src/engine/checkPair';
 import { defaultCheckOptions, type PairReport } from '../server/src/engine/types';
 import { makeArray, makeFloat64 } from '../test/support/problems';
 import { forwardDifferenceCheck, type Verdict } from './baseline';
+import { callsOf } from './budget';
 import { correctCases, type CorrectCase } from './corpus';
 import { mutantKinds, mutantsAt, type MutantKind } from './mutants';
 
@@ -25,8 +26,10 @@ export interface CaseNote {
   kind?: MutantKind;
   relativeSize?: number;
   verdict: Verdict;
-  /** For a missed bug: whether the engine's own error estimate could have resolved it. */
+  /** For a missed bug: whether the engine's own error estimate could have resolved it; for an undecided correct case, why. */
   why?: string;
+  /** An undecided correct case whose every named component lies within its error bound: undecided by rule, not by fault. */
+  forced?: boolean;
   detail: string;
 }
 
@@ -92,14 +95,14 @@ function whyMissed(report: PairReport, trueGradient: number[], relativeSize: num
  * an exact derivative (the problem's own gradient, derived by hand) no larger than that
  * component's error bound at the first probe, so no difference of f could confirm it there.
  */
-function whyUndecided(report: PairReport, trueGradient: number[]): string {
+function whyUndecided(report: PairReport, trueGradient: number[]): { forced: boolean; why: string } {
   const named = report.findings.find((f) => f.code === 'gradient-undecided')?.components ?? [];
+  if (named.length === 0) return { forced: false, why: 'unforced: no component named' };
   const components = report.probes[0]?.components ?? [];
   const unforced = named.filter((i) => !(Math.abs(trueGradient[i]) <= (components.find((c) => c.index === i)?.errorBound ?? 0)));
-  if (named.length === 0) return 'unforced: no component named';
   return unforced.length === 0
-    ? `forced: exact ${named.map((i) => `∂${i} = ${trueGradient[i].toExponential(1)}`).join(', ')} within the error bounds`
-    : `unforced: components ${unforced.join(', ')} exceed their bounds`;
+    ? { forced: true, why: `forced: exact ${named.map((i) => `∂${i} = ${trueGradient[i].toExponential(1)}`).join(', ')} within the error bounds` }
+    : { forced: false, why: `unforced: components ${unforced.join(', ')} exceed their bounds` };
 }
 
 const firstFinding = (report: PairReport) => report.findings.map((f) => `${f.code}: ${f.message}`).join(' | ').slice(0, 400);
@@ -111,9 +114,9 @@ export function runAccuracy(log: (line: string) => void): AccuracyResult {
   cases.forEach((c, index) => {
     const report = runEngine(c, c.problem.g);
     const verdict = verdictOf(report);
-    record(result.slopecheck, verdict, report.evaluations.objective + report.evaluations.gradient, null);
+    record(result.slopecheck, verdict, callsOf(report), null);
     if (verdict === 'fail') result.slopecheckFalseAlarms.push({ label: c.label, verdict, detail: firstFinding(report) });
-    if (verdict === 'inconclusive') result.slopecheckInconclusiveOnCorrect.push({ label: c.label, verdict, why: whyUndecided(report, c.problem.g(c.point)), detail: firstFinding(report) });
+    if (verdict === 'inconclusive') result.slopecheckInconclusiveOnCorrect.push({ label: c.label, verdict, ...whyUndecided(report, c.problem.g(c.point)), detail: firstFinding(report) });
     const base = forwardDifferenceCheck(c.problem.f, c.problem.g, c.point);
     record(result.baseline, base.verdict, base.evaluations, null);
 
@@ -121,7 +124,7 @@ export function runAccuracy(log: (line: string) => void): AccuracyResult {
     for (const mutant of mutantsAt(c.problem, c.point, 7000 + index)) {
       const mutated = runEngine(c, mutant.g);
       const mutatedVerdict = verdictOf(mutated);
-      record(result.slopecheck, mutatedVerdict, mutated.evaluations.objective + mutated.evaluations.gradient, mutant.kind);
+      record(result.slopecheck, mutatedVerdict, callsOf(mutated), mutant.kind);
       if (mutatedVerdict !== 'fail') {
         result.slopecheckMissed.push({ label: c.label, kind: mutant.kind, relativeSize: mutant.relativeSize, verdict: mutatedVerdict, why: whyMissed(mutated, trueGradient, mutant.relativeSize), detail: firstFinding(mutated) });
       }

@@ -2,6 +2,7 @@
 // called safe too soon, or a verdict lost to the time budget (test/support/adversarial.ts), with
 // the verdict each must give, the verdict given and the calls it took.
 import { adversarialCases } from '../test/support/adversarial';
+import { callsOf } from './budget';
 
 export interface AdversarialRow {
   name: string;
@@ -18,7 +19,7 @@ export function runAdversarial(log: (line: string) => void): AdversarialRow[] {
     const rate = report.learningRate?.status;
     const held = report.status === c.status && (!c.rate || rate === c.rate);
     const verdict = (status: string, rateStatus: string | undefined) => (rateStatus ? `${status}, rate ${rateStatus}` : status);
-    return { name: c.name, trap: c.trap, expected: verdict(c.status, c.rate), got: verdict(report.status, c.rate ? rate ?? 'none' : undefined), calls: report.evaluations.objective + report.evaluations.gradient, held };
+    return { name: c.name, trap: c.trap, expected: verdict(c.status, c.rate), got: verdict(report.status, c.rate ? rate ?? 'none' : undefined), calls: callsOf(report), held };
   });
   log(`  adversarial: ${rows.filter((r) => r.held).length} of ${rows.length} cases gave the verdict they must`);
   return rows;

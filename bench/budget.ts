@@ -57,7 +57,8 @@ function run(n: number, costMs: number, wrong: boolean, endsAt: number | null, s
   return { report, clockMs: clock };
 }
 
-const callsOf = (report: PairReport) => report.evaluations.objective + report.evaluations.gradient;
+/** Calls of the objective and the gradient a check made. */
+export const callsOf = (report: PairReport) => report.evaluations.objective + report.evaluations.gradient;
 
 export function runBudget(log: (line: string) => void): BudgetResult {
   const calls = [2, 5, 10, 20, 50, 64, 100, 1000].map((n) => {

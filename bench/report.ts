@@ -70,7 +70,7 @@ export function targetsTable(results: BenchResults): string {
     ]);
     // A component whose exact derivative is inside its error bound (zero by symmetry, or below what
     // f's rounding resolves) cannot be confirmed; such cases are inconclusive by rule, not by fault.
-    const unforced = a.details.slopecheckInconclusiveOnCorrect.filter((c) => !(c.why ?? '').startsWith('forced'));
+    const unforced = a.details.slopecheckInconclusiveOnCorrect.filter((c) => !c.forced);
     rows.push([
       'inconclusive on smooth correct cases under 1 %, besides components whose exact derivative lies within its error bound',
       `${pct(unforced.length, s.correctCases)} (${s.inconclusiveOnCorrect - unforced.length} more with such components)`,

@@ -5,7 +5,7 @@
 // first of them ran the user's code.
 import type { PairReport, ProbeReport } from '../../../server/src/engine/types';
 import type { PairReportResult } from '../../../server/src/shared/protocol';
-import { describeDiagnosis, verdictWords } from '../../../server/src/shared/wording';
+import { describeDiagnosis, noDivergenceStep, verdictWords } from '../../../server/src/shared/wording';
 import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from './format';
 import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
 
@@ -78,7 +78,7 @@ function figuresTable(report: PairReport): string {
     ['Shape of the error', report.diagnosis ? describeDiagnosis(report.diagnosis) : '—'],
     ['L̂ (local Lipschitz estimate)', formatFigure(s?.lipschitz)],
     ['Safe step 1/L̂', formatFigure(s?.safeStep)],
-    ['Divergence step 2/λ⁺', s?.divergenceStep === null ? 'none (no positive curvature)' : formatFigure(s?.divergenceStep)],
+    ['Divergence step 2/λ⁺', s?.divergenceStep === null ? noDivergenceStep : formatFigure(s?.divergenceStep)],
     ['μ̂ (smallest curvature)', formatFigure(s?.mu)],
     ['κ̂ = L̂/μ̂', formatFigure(s?.kappa)],
     ['Learning rate', rate ? `${rate.name} = ${formatFigure(rate.value)}: ${rate.status}` : 'none declared'],

@@ -20,7 +20,7 @@ its code in a sandbox process.
 
   --format      text (default), json or sarif; json and sarif go to stdout alone
   --seed        seed of the random probes and directions (default 1)
-  --timeout-ms  time budget for checking one pair, in milliseconds (default 10000)
+  --timeout-ms  time budget for checking one pair, in milliseconds (default ${defaultSettings.timeoutMs})
   --smoothness  estimate L̂ and the safe step 1/L̂ for every passing pair; without it,
                 only pairs with a declared learning rate get them
   --help        show this text

@@ -149,8 +149,8 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
     const { mode } = first.report;
     const trimmed = first.directional && mode === 'directional' ? first.directional.directions.length : options.directionCount;
     if (trimmed < options.directionCount && !first.cut) report.findings.push(budgetFinding(calls, `the time budget allowed ${trimmed} of ${options.directionCount} random directions at probe 1`));
+    const whole: ProbeWork = mode === 'full' ? { mode: 'full' } : { mode: 'directional', directions: trimmed };
     for (let p = 1; p < points.length && !outcomes.some((o) => o.mismatch || o.cut); p++) {
-      const whole: ProbeWork = mode === 'full' ? { mode: 'full' } : { mode: 'directional', directions: trimmed };
       const work = laterProbeWork(outcomes, whole);
       const expectedMs = (work.mode === 'spot' ? expectedSpotCalls(work) : firstProbeCalls) * calls.meanCallMs();
       if (calls.remainingMs() < probeTimeMargin * expectedMs) {
@@ -264,7 +264,7 @@ function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], plan: Pa
  */
 function unconfirmedDerivatives(outcomes: ProbeOutcome[]): Finding | null {
   if (outcomes[0].report.mode === 'directional') {
-    if (outcomes.some((o) => o.report.mode === 'directional' && o.complete && !o.stationary)) return null;
+    if (decidedEveryDirection(outcomes)) return null;
     const first = outcomes.find((o) => !o.stationary);
     if (!first) return null;
     const reasons = [...new Set(first.directional?.directions.flatMap((d) => (d.undecided ? [d.undecided] : [])) ?? [])];
@@ -326,13 +326,16 @@ function budgetFinding(calls: UserCalls, what: string): Finding {
  * every direction); else the whole check again.
  */
 function laterProbeWork(outcomes: ProbeOutcome[], whole: ProbeWork): ProbeWork {
-  if (whole.mode === 'directional') {
-    return outcomes.some((o) => o.report.mode === 'directional' && o.complete && !o.stationary) ? { mode: 'spot', components: [] } : whole;
-  }
+  if (whole.mode === 'directional') return decidedEveryDirection(outcomes) ? { mode: 'spot', components: [] } : whole;
   const n = outcomes[0].context.x.length;
   const confirmed = confirmedComponents(outcomes);
   if (confirmed.size === 0) return whole;
   return { mode: 'spot', components: Array.from({ length: n }, (_, i) => i).filter((i) => !confirmed.has(i)) };
+}
+
+/** Some probe checked by random directions decided every one of them (and is not stationary). */
+function decidedEveryDirection(outcomes: ProbeOutcome[]): boolean {
+  return outcomes.some((o) => o.report.mode === 'directional' && o.complete && !o.stationary);
 }
 
 /** Components that agreed at some probe. */

@@ -3,9 +3,8 @@
 import { componentCheckOf } from './decision';
 import { defaultDifferenceSettings } from './differences';
 import { checkSlice, initialRelativeStep, type ProbeContext } from './probeContext';
-import { BudgetSpent } from './userCalls';
 import type { ComponentCheck } from './types';
-import type { CallSite } from './userCalls';
+import { BudgetSpent, type CallSite } from './userCalls';
 import { offsetComponent } from './vectors';
 
 export interface FullCheckResult {
@@ -19,7 +18,7 @@ export interface FullCheckResult {
 }
 
 /** Checks the components `indices` (every one by default), in order. */
-export function checkEveryComponent(context: ProbeContext, indices: Iterable<number> = context.x.keys()): FullCheckResult {
+export function checkComponents(context: ProbeContext, indices: Iterable<number> = context.x.keys()): FullCheckResult {
   const { x, gradient } = context;
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a finite-difference point' };
   const relativeStep = initialRelativeStep(context);

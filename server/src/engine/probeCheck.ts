@@ -5,7 +5,7 @@ import { diagnoseComponents, diagnoseDirections } from './diagnosis';
 import { mismatchMessage } from './wording';
 import { checkRandomDirections, type DirectionalResult } from './directionalCheck';
 import { formatList } from './format';
-import { checkEveryComponent, type FullCheckResult } from './fullCheck';
+import { checkComponents, type FullCheckResult } from './fullCheck';
 import { localiseWrongComponents } from './localise';
 import { estimateNoise } from './noise';
 import { gradientUnitOf, type ProbeContext } from './probeContext';
@@ -150,72 +150,66 @@ function noiseNear(context: ProbeContext, random: Random): number {
 }
 
 function runFull(outcome: ProbeOutcome): void {
-  const full = checkEveryComponent(outcome.context);
-  outcome.full = full;
-  const { report } = outcome;
-  const mismatched = full.components.filter((c) => c.mismatch);
-  outcome.mismatch = mismatched.length > 0;
-  outcome.kink = full.kinks.length > 0;
-  outcome.cut = full.cut;
-  classifyProbe(outcome, full.components);
-  if (full.cut) outcome.complete = false;
-  report.components = full.components.map(sanitiseComponent);
-  report.maxRelError = largestRelError(full.components);
-  if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
+  const full = checkComponents(outcome.context);
+  settle(outcome, null, full);
   if (!outcome.mismatch) return;
   outcome.diagnosis = diagnoseComponents(full.components, !full.cut);
-  outcome.findings.push(mismatchFinding(outcome, mismatched.map((c) => c.index)));
+  outcome.findings.push(mismatchFinding(outcome));
 }
 
 function runDirectional(outcome: ProbeOutcome, count: number, random: Random): void {
   const { context, report } = outcome;
   const directional = checkRandomDirections(context, random, count);
-  outcome.directional = directional;
-  outcome.cut = directional.cut;
-  const mismatched = directional.directions.filter((d) => d.mismatch);
-  outcome.mismatch = mismatched.length > 0;
-  outcome.kink = directional.kinks > 0;
-  classifyProbe(outcome, directional.directions);
-  if (directional.cut) outcome.complete = false;
-  report.directions = directional.directions.map(sanitiseDirection);
-  report.maxRelError = largestRelError(directional.directions);
-  if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, []));
+  settle(outcome, directional, null);
   if (!outcome.mismatch) return;
   outcome.diagnosis = diagnoseDirections(directional.directions);
   if (!outcome.diagnosis) {
     const found = localiseWrongComponents(context, random, localisationBudget);
-    report.components = found.components.map(sanitiseComponent);
+    report.components = found.components.map(sanitised);
     report.localisation = { pooledDifferences: found.pooledDifferences, coordinateDifferences: found.coordinateDifferences, incomplete: found.incomplete };
     outcome.diagnosis = diagnoseComponents(found.components, false) ?? { kind: 'unknown' };
   }
-  outcome.findings.push(mismatchFinding(outcome, report.components.map((c) => c.index)));
-}
-
-function mismatchFinding(outcome: ProbeOutcome, components: number[]): Finding {
-  const { probeIndex } = outcome.context;
-  const finding = makeFinding('gradient-mismatch', 'gradient', mismatchMessage(outcome.report, probeIndex, outcome.diagnosis), { probeIndex, point: 'the probe' });
-  if (components.length > 0) finding.components = components;
-  return finding;
+  outcome.findings.push(mismatchFinding(outcome));
 }
 
 function runSpot(outcome: ProbeOutcome, components: number[], random: Random): void {
-  const { context, report } = outcome;
-  const directional = checkRandomDirections(context, random, spotDirections);
+  const directional = checkRandomDirections(outcome.context, random, spotDirections);
   // A suspect direction ends the spot check: checkPair checks the probe again as a whole.
   const suspect = directional.directions.some((d) => d.mismatch);
-  const full: FullCheckResult = suspect ? { components: [], kinks: [], steps: [], cut: false } : checkEveryComponent(context, components);
+  settle(outcome, directional, suspect ? null : checkComponents(outcome.context, components));
+}
+
+/**
+ * What a probe's comparisons add up to, whichever work ran: a mismatch, a kink, a cut by the
+ * budget, whether everything was decided (or the probe is stationary or noisy), the report's rows
+ * and largest relative error, and the finding for a kink.
+ */
+function settle(outcome: ProbeOutcome, directional: DirectionalResult | null, full: FullCheckResult | null): void {
+  const { report } = outcome;
+  const directions = directional?.directions ?? [];
+  const components = full?.components ?? [];
+  const checks = [...directions, ...components];
   outcome.directional = directional;
   outcome.full = full;
-  outcome.mismatch = suspect || full.components.some((c) => c.mismatch);
-  outcome.kink = directional.kinks > 0 || full.kinks.length > 0;
-  outcome.cut = directional.cut || full.cut;
-  const checks = [...directional.directions, ...full.components];
+  outcome.mismatch = checks.some((c) => c.mismatch);
+  outcome.kink = (directional?.kinks ?? 0) > 0 || (full?.kinks.length ?? 0) > 0;
+  outcome.cut = (directional?.cut ?? false) || (full?.cut ?? false);
+  // Before the rows are copied: a stationary probe marks its checks so.
   classifyProbe(outcome, checks);
   if (outcome.cut) outcome.complete = false;
-  report.directions = directional.directions.map(sanitiseDirection);
-  report.components = full.components.map(sanitiseComponent);
+  report.directions = directions.map(sanitised);
+  report.components = components.map(sanitised);
   report.maxRelError = largestRelError(checks);
-  if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full.kinks));
+  if (outcome.kink) outcome.findings.push(nonSmoothFinding(outcome, full?.kinks ?? []));
+}
+
+/** The mismatch finding, naming the wrong components the report lists. */
+function mismatchFinding(outcome: ProbeOutcome): Finding {
+  const { probeIndex } = outcome.context;
+  const finding = makeFinding('gradient-mismatch', 'gradient', mismatchMessage(outcome.report, probeIndex, outcome.diagnosis), { probeIndex, point: 'the probe' });
+  const components = outcome.report.components.filter((c) => c.mismatch).map((c) => c.index);
+  if (components.length > 0) finding.components = components;
+  return finding;
 }
 
 /** Largest |analytic − numerical| / max(|analytic|, |numerical|) among the decided derivatives. */
@@ -272,12 +266,10 @@ function rank(c: ComponentCheck): number {
   return (c.mismatch ? 2 : 0) + Math.min(c.relError, 1);
 }
 
-/** Non-finite figures made finite for the report, which JSON must carry. */
-function sanitiseDirection<Check extends DirectionalCheck>(c: Check): Check {
+/** A row with its non-finite figures made finite for the report, which JSON must carry. */
+function sanitised<Check extends DirectionalCheck>(c: Check): Check {
   return { ...c, numerical: finiteOr(c.numerical, 0), errorBound: finiteOr(c.errorBound, Number.MAX_VALUE) };
 }
-
-const sanitiseComponent: (c: ComponentCheck) => ComponentCheck = sanitiseDirection;
 
 function finiteOr(value: number, fallback: number): number {
   return Number.isFinite(value) ? value : fallback;

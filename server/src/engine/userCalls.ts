@@ -52,7 +52,8 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
   const made = () => counts.objective + counts.gradient;
   const meanCallMs = (which?: 'objective' | 'gradient') => {
     const calls = which ? counts[which] : made();
-    return calls > 0 ? (which ? spentMs[which] : spentMs.objective + spentMs.gradient) / calls : 0;
+    const spent = which ? spentMs[which] : spentMs.objective + spentMs.gradient;
+    return calls > 0 ? spent / calls : 0;
   };
   const remainingMs = () => (budget.endsAt === null ? Number.POSITIVE_INFINITY : budget.endsAt - budget.clock());
   const warnings: Finding[] = [];

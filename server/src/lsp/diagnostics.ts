@@ -107,7 +107,7 @@ function seenAt(findings: Finding[], outcome: PairOutcome): string {
   const total = outcome.report.probes.length;
   // One probe checked says nothing more: the check stops at the first probe with a mismatch.
   if (probes.size === 0 || total <= 1) return '';
-  return ` Seen at ${probes.size} of ${total} ${total === 1 ? 'probe' : 'probes'}.`;
+  return ` Seen at ${probes.size} of ${total} probes.`;
 }
 
 /** The other half of the pair, and the probe tag the finding was seen at. */

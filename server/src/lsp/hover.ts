@@ -4,7 +4,7 @@ import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import type { RateStatus } from '../engine/types';
 import { documentNamespace } from '../discovery/importerCalls';
-import { baseName, describeCall, describeDiagnosis, shortNumber, verdictWords, withoutNamespace } from '../shared/wording';
+import { baseName, describeCall, describeDiagnosis, noDivergenceStep, shortNumber, verdictWords, withoutNamespace } from '../shared/wording';
 
 export type NameRole = 'objective' | 'gradient' | 'learningRate';
 
@@ -41,7 +41,7 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
   if (s) {
     rows.push(['L̂ (local Lipschitz estimate)', shortNumber(s.lipschitz)]);
     rows.push(['safe step 1/L̂', shortNumber(s.safeStep)]);
-    rows.push(['divergence at 2/λ⁺', s.divergenceStep === null ? 'none (no positive curvature)' : shortNumber(s.divergenceStep)]);
+    rows.push(['divergence at 2/λ⁺', s.divergenceStep === null ? noDivergenceStep : shortNumber(s.divergenceStep)]);
     rows.push(['μ̂ (smallest curvature)', `${shortNumber(s.mu)}${s.mu < 0 ? ' (not convex here)' : ''}`]);
     rows.push(['κ̂ = L̂/μ̂', s.kappa === null ? '— (μ̂ ≤ 0)' : shortNumber(s.kappa)]);
   }

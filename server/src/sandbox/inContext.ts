@@ -54,7 +54,7 @@ export function loadModule(factory: (exports: unknown, module: LoadedModule, req
  * Runs the plan against the module loaded by `loadModule`. `endsAt` is the clock time by which
  * the engine must have reported (null for no budget): it then reports what it has decided.
  */
-export function runLoaded(planJson: string, endsAt: number | null = null): string {
+export function runLoaded(planJson: string, endsAt: number | null): string {
   if (!loadedScope) return stringify(errorReport([internalFinding('the module was not loaded')]));
   return run(loadedScope, planJson, checkPair, endsAt);
 }

@@ -42,6 +42,9 @@ export function baseName(fileName: string): string {
 }
 
 
+/** What stands for 2/λ⁺ when no positive curvature was found. */
+export const noDivergenceStep = 'none (no positive curvature)';
+
 export const verdictWords: Record<PairStatus, string> = {
   pass: 'gradient matches',
   fail: 'gradient wrong',
