@@ -293,10 +293,17 @@ describe('curvature and learning rates', () => {
   }
 
   test('an unconverged Lanczos estimate widens L̂ upward and says so', () => {
-    // ½xᵀAx with A = diag(1, 2, …, 60): λmax = 60. Three Lanczos steps cannot converge on it.
+    // ½xᵀAx with A = Q·diag(1, 2, …, 60)·Q, Q = I − 2uuᵀ for u = (1, …, 1)/√60 (a reflection): λmax = 60,
+    // while every diagonal entry of A stays below 59, so the check's own second differences (Aᵢᵢ)
+    // cannot reach λmax either. Three Lanczos steps cannot converge on it.
     const n = 60;
-    const f = (x: ArrayLike<number>) => { let s = 0; for (let i = 0; i < n; i++) s += 0.5 * (i + 1) * x[i] ** 2; return s; };
-    const g: Gradient = (x) => Array.from({ length: n }, (_, i) => (i + 1) * x[i]);
+    const d = Array.from({ length: n }, (_, i) => i + 1);
+    const reflect = (x: ArrayLike<number>) => {
+      const mean = Array.from(x).reduce((s, v) => s + v, 0) / n;
+      return Array.from(x, (v) => v - 2 * mean);
+    };
+    const g: Gradient = (x) => reflect(reflect(x).map((v, i) => d[i] * v));
+    const f = (x: ArrayLike<number>) => reflect(x).reduce((s, v, i) => s + 0.5 * d[i] * v * v, 0);
     const probe = [Array.from({ length: n }, (_, i) => 1 + Math.sin(i))];
     const report = checkPair({ objective: f, gradient: g, makeVector: makeArray }, probe, withRate(0.0175, { ...defaultCheckOptions, lanczosSteps: 3 }));
     const ritz = report.probes[0].smoothness!.lambdaMax;

@@ -50,6 +50,30 @@ describe('difference formulas (Nocedal & Wright, Numerical Optimization, 2nd ed.
     assert.equal(differentiate(sharp, sharp(0), 0.01, { noise: 1e-18, minLevels: 4, maxLevels: 12 }).kink, false);
   });
 
+  test("the same evaluations bound |φ''(0)| from below, close to it, and never above it", () => {
+    // φ''(0) by hand: e^{sin 1}(cos²1 − sin 1) for φ above, 4 for e^{2t}, −9 for cos 3t, 0 for a line.
+    const cases: Array<[string, (t: number) => number, number]> = [
+      ['e^{sin(1 + t)}', phi, Math.exp(Math.sin(1)) * (Math.cos(1) ** 2 - Math.sin(1))],
+      ['e^{2t}', (t) => Math.exp(2 * t), 4],
+      ['cos 3t', (t) => Math.cos(3 * t), -9],
+      ['3t + 1', (t) => 3 * t + 1, 0],
+    ];
+    for (const [name, slice, second] of cases) {
+      const { curvatureFloor } = differentiate(slice, slice(0), 0.05, { noise: 1e-16, minLevels: 4, maxLevels: 12 });
+      assert.ok(curvatureFloor <= Math.abs(second), `${name}: ${curvatureFloor} above |φ''| = ${Math.abs(second)}`);
+      assert.ok(curvatureFloor >= Math.abs(second) * (1 - 1e-3), `${name}: ${curvatureFloor} far below |φ''| = ${Math.abs(second)}`);
+    }
+    // Noise of 10⁻⁶ on a slice of curvature 4: the floor stays below the truth, whatever the draws.
+    const random = createRandom(11);
+    for (let k = 0; k < 50; k++) {
+      const noisy = (t: number) => Math.exp(2 * t) + 1e-6 * random.normal();
+      const { curvatureFloor } = differentiate(noisy, 1, 0.05, { noise: 1e-6, minLevels: 4, maxLevels: 12 });
+      assert.ok(curvatureFloor <= 4, `draw ${k}: ${curvatureFloor}`);
+    }
+    // A kink bounds nothing.
+    assert.equal(differentiate((t) => Math.abs(t) + t * t, 0, 0.01, { noise: 1e-17, minLevels: 4, maxLevels: 12 }).curvatureFloor, 0);
+  });
+
   test('a first step outside the domain is shrunk instead of failing', () => {
     const logBarrier = (t: number) => Math.log(1e-3 + t);
     const estimate = differentiate(logBarrier, logBarrier(0), 0.05, { noise: 1e-16, minLevels: 4, maxLevels: 12 });

@@ -156,6 +156,19 @@ describe('smoothness of the objective near the probes', () => {
     assert.equal(report.smoothness!.divergenceStep, 2 / report.smoothness!.lipschitz);
   });
 
+  test("the gradient check's own differences give a lower bound on L̂ at no extra call: Hᵢᵢ at Rosenbrock's start", () => {
+    // Rosenbrock at (−1.2, 1): H₀₀ = 1200x₀² − 400x₁ + 2 = 1330, H₁₁ = 200 (by hand from Rosenbrock 1960).
+    const asked = { dimension: 2, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } };
+    const report = checkPair({ objective: rosenbrock.f, gradient: rosenbrock.g, makeVector: makeFloat64 }, [[-1.2, 1]], asked);
+    const smoothness = report.probes[0].smoothness!;
+    const floor = smoothness.checkCurvature!;
+    assert.ok(floor <= 1330 && floor >= 1330 * (1 - 1e-3), `check curvature ${floor} against H₀₀ = 1330`);
+    assert.ok(report.smoothness!.lipschitz >= floor, 'L̂ is never below it');
+    // Shared, not bought: the same check without the curvature makes the same objective calls for the gradient.
+    const plain = checkPair({ objective: rosenbrock.f, gradient: rosenbrock.g, makeVector: makeFloat64 }, [[-1.2, 1]], { ...asked, options: defaultCheckOptions });
+    assert.equal(report.evaluations.objective, plain.evaluations.objective);
+  });
+
   for (const n of [10, 200]) {
     test(`½xᵀAx with seeded random SPD A, n = ${n}: L̂ = λmax within 1e-3 in ≤ 40 products`, () => {
       const a = randomGram(n, 2 * n, 0.1, n);

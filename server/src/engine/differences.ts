@@ -18,6 +18,11 @@ export interface DerivativeEstimate {
   resolved: boolean;
   /** φ equalled φ(0) exactly at every step: the slice is constant as far as the check can see. */
   flat: boolean;
+  /**
+   * A lower bound on |φ''(0)| from the same evaluations (0 when they bound nothing): the check
+   * hands it to the curvature estimate, which so gets a Rayleigh quotient of the Hessian for free.
+   */
+  curvatureFloor: number;
 }
 
 export interface DifferenceSettings {
@@ -74,7 +79,7 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     plus = phi(firstStep);
     minus = phi(-firstStep);
   }
-  if (!(Number.isFinite(plus) && Number.isFinite(minus))) return { value: Number.NaN, errorBound: Number.POSITIVE_INFINITY, step: firstStep, kink: false, resolved: false, flat: false };
+  if (!(Number.isFinite(plus) && Number.isFinite(minus))) return { value: Number.NaN, errorBound: Number.POSITIVE_INFINITY, step: firstStep, kink: false, resolved: false, flat: false, curvatureFloor: 0 };
   let flat = plus === phi0 && minus === phi0;
 
   // Noise relative to f grows where |φ(±h)| ≫ |φ(0)|; rounding alone is at least 2^-52·|φ(±h)|.
@@ -123,7 +128,24 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
   const errorBound = estimateMargin * bestError + noiseMultiplier * bestNoise / bestStep;
   const resolved = isResolved(steps, gaps, noise);
   const kink = !resolved && looksKinked(phi, phi0, steps, gaps, noise);
-  return { value: best, errorBound, step: bestStep, kink, resolved, flat };
+  return { value: best, errorBound, step: bestStep, kink, resolved, flat, curvatureFloor: resolved && !kink ? curvatureFloorOf(steps, gaps, noise) : 0 };
+}
+
+/**
+ * |φ''(0)| from below, by the second differences S(h) = |φ(h) + φ(−h) − 2φ(0)| / h² = |φ''(0)| + O(h²)
+ * of the two finest levels whose gaps stand well above noise (so their sign cannot flip):
+ * Richardson's (4S(h/2) − S(h))/3, less a margin times the change between the levels and the
+ * noise both can carry (4σ/h² at most, σ the noise of one value). 0 when no two levels qualify.
+ */
+function curvatureFloorOf(steps: number[], gaps: number[], noise: number): number {
+  const signal = steps.flatMap((_, i) => (gaps[i] > signalOverNoise * noise ? [i] : []));
+  if (signal.length < 2) return 0;
+  const [coarse, fine] = signal.slice(-2);
+  if (fine !== coarse + 1) return 0;
+  const second = (i: number) => gaps[i] / steps[i] ** 2;
+  const extrapolated = richardson(second(coarse), second(fine));
+  const uncertainty = estimateMargin * Math.abs(second(fine) - second(coarse)) + (4 * noise) / steps[fine] ** 2;
+  return Math.max(0, extrapolated - uncertainty);
 }
 
 /**

@@ -3,10 +3,11 @@
 // by localise.ts).
 import type { DerivativeEstimate } from './differences';
 import { directionalCheckOf, directionalSize, type Judgement } from './decision';
-import { checkDirection, initialRelativeStep, type ProbeContext } from './probeContext';
+import { checkDirection, initialRelativeStep, noteCurvature, type ProbeContext } from './probeContext';
 import type { Random } from './random';
 import type { DirectionalCheck } from './types';
 import { BudgetSpent } from './userCalls';
+import { dot } from './vectors';
 
 export interface DirectionalResult {
   directions: DirectionalCheck[];
@@ -52,6 +53,7 @@ function testDirection(context: ProbeContext, direction: Float64Array, from: num
   const unit = context.gradientUnit * Math.max(1, Math.sqrt(to - from));
   const size = directionalSize(context.gradient, context.x, from, to);
   const { numerical, verdict } = checkDirection(context, direction, initialRelativeStep(context), analytic, { roundoffScale, unit, size }, options);
+  noteCurvature(context, numerical, dot(direction, direction));
   return { analytic, numerical, verdict };
 }
 

@@ -2,7 +2,7 @@
 // its own central difference, with steps scaled to max(|x_i|, 1).
 import { componentCheckOf } from './decision';
 import { defaultDifferenceSettings } from './differences';
-import { checkSlice, initialRelativeStep, type ProbeContext } from './probeContext';
+import { checkSlice, initialRelativeStep, noteCurvature, type ProbeContext } from './probeContext';
 import type { ComponentCheck } from './types';
 import { BudgetSpent, type CallSite } from './userCalls';
 import { offsetComponent } from './vectors';
@@ -38,6 +38,8 @@ export function checkComponents(context: ProbeContext, indices: Iterable<number>
       break;
     }
     const { numerical, verdict } = checked;
+    // φ(t) = f(x + t·eᵢ): φ'' is Hᵢᵢ.
+    noteCurvature(context, numerical, 1);
     result.components.push(componentCheckOf(i, gradient[i], numerical.value, verdict));
     result.steps.push(numerical.step);
     if (numerical.kink) result.kinks.push(i);

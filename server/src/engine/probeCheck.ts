@@ -87,7 +87,7 @@ export function checkProbe(calls: UserCalls, x: Float64Array, probeIndex: number
     finding.components = nonFinite;
     throw new CheckStopped(finding);
   }
-  const context: ProbeContext = { calls, probeIndex, x, value, gradient, noise: 0, gradientUnit: gradientUnitOf(gradient) };
+  const context: ProbeContext = { calls, probeIndex, x, value, gradient, noise: 0, gradientUnit: gradientUnitOf(gradient), curvatureSeen: 0 };
   let repeated = value;
   if (carried) {
     context.noise = Math.max(carried.absolute, carried.relative * Math.abs(value));

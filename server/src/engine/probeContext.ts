@@ -15,6 +15,16 @@ export interface ProbeContext {
   noise: number;
   /** Unit roundoff the gradient seems to be computed in (float32 or float64). */
   gradientUnit: number;
+  /**
+   * Largest |vᵀHv|/‖v‖² the gradient check's own differences bound from below (noteCurvature):
+   * the curvature estimate takes it as a lower bound on L̂ without a further call.
+   */
+  curvatureSeen: number;
+}
+
+/** Keeps the Rayleigh quotient a slice along `direction` (of squared length `lengthSquared`) bounded from below. */
+export function noteCurvature(context: ProbeContext, estimate: DerivativeEstimate, lengthSquared: number): void {
+  if (lengthSquared > 0) context.curvatureSeen = Math.max(context.curvatureSeen, estimate.curvatureFloor / lengthSquared);
 }
 
 const float32Unit = 2 ** -23;

@@ -80,6 +80,7 @@ export function probeSmoothness(context: ProbeContext, random: Random, lanczosSt
   const secantMax = secantSlopes(context, random);
   const estimate: ProbeSmoothness = { lambdaMax: lanczos.lambdaMax, lambdaMin: lanczos.lambdaMin, ritzValues: lanczos.ritzValues, secantMax, hessianVectorProducts: Math.ceil(products) };
   if (error !== null) estimate.productError = error;
+  if (context.curvatureSeen > 0) estimate.checkCurvature = context.curvatureSeen;
   // Unknown (a product failed at the first step) stays absent rather than Infinity, which JSON cannot carry.
   if (Number.isFinite(lanczos.lambdaMaxResidual)) estimate.lambdaMaxResidual = lanczos.lambdaMaxResidual;
   if (Number.isFinite(lanczos.lambdaMinResidual)) estimate.lambdaMinResidual = lanczos.lambdaMinResidual;
@@ -95,7 +96,8 @@ const unconvergedShare = 1e-6;
 /**
  * The figures of one probe's curvature. L̂ = largest of |λmax|, |λmin| (each widened by its
  * Lanczos residual when unconverged: the Ritz value then lies below the extreme eigenvalue by up
- * to about that much) and the secant slope: the safe step 1/L̂ comes from it. The divergence
+ * to about that much), the secant slope and the curvature the gradient check's differences bound
+ * from below: the safe step 1/L̂ comes from it. The divergence
  * threshold 2/λ⁺ comes from the largest positive curvature alone, unwidened: a Ritz value lies
  * inside the spectrum, so a rate at or above 2/λ⁺ diverges on the quadratic model, while negative
  * curvature never makes it diverge. μ̂ = λmin.
@@ -106,8 +108,10 @@ export function smoothnessOf(s: ProbeSmoothness): SmoothnessEstimate | null {
   let widened = false;
   let productError: number | undefined;
   const beyondShare = (amount: number | undefined, value: number) => (amount !== undefined && amount > unconvergedShare * value ? amount : 0);
-  // Each Lanczos candidate for L̂ carries the residual of its Ritz value and the products' error; a secant slope has neither.
-  for (const [value, residual, products] of [[Math.abs(s.lambdaMax), s.lambdaMaxResidual, s.productError], [Math.abs(s.lambdaMin), s.lambdaMinResidual, s.productError], [s.secantMax, undefined, undefined]] as const) {
+  // Each Lanczos candidate for L̂ carries the residual of its Ritz value and the products' error; a
+  // secant slope and the gradient check's own curvature are lower bounds with neither.
+  const candidates = [[Math.abs(s.lambdaMax), s.lambdaMaxResidual, s.productError], [Math.abs(s.lambdaMin), s.lambdaMinResidual, s.productError], [s.secantMax, undefined, undefined], [s.checkCurvature ?? 0, undefined, undefined]] as const;
+  for (const [value, residual, products] of candidates) {
     const open = beyondShare(residual, value);
     const inexact = beyondShare(products, value);
     if (value + open + inexact > lipschitz) {

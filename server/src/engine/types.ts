@@ -244,6 +244,8 @@ export interface ProbeReport {
     lambdaMinResidual?: number;
     /** |yᵀH_t y − yᵀH_2t y| for the dominant Ritz vector y: the error of the products at step t. */
     productError?: number;
+    /** Largest |vᵀHv|/‖v‖² the gradient check's own differences bound from below: a lower bound on L̂ at no extra call. */
+    checkCurvature?: number;
   } | null;
   descent: DescentRun[];
 }

@@ -130,7 +130,7 @@ const descentRun = objectOf<DescentRun>({ label: runLabel, rate: measurement, va
 
 const probeSmoothness = objectOf<NonNullable<ProbeReport['smoothness']>>(
   { lambdaMax: measurement, lambdaMin: measurement, ritzValues: numbers, secantMax: measurement, hessianVectorProducts: count },
-  { lambdaMaxResidual: measurement, lambdaMinResidual: measurement, productError: measurement },
+  { lambdaMaxResidual: measurement, lambdaMinResidual: measurement, productError: measurement, checkCurvature: measurement },
 );
 
 const probeReport = objectOf<ProbeReport>(
