@@ -6,6 +6,13 @@ export const readmeUrl = 'https://github.com/slopecheck/slopecheck/blob/main/REA
 
 export const findingTitles: Record<FindingCode, string> = {
   'gradient-mismatch': 'The gradient disagrees with central differences of the objective beyond their error bound.',
+  'jacobian-mismatch': 'The Jacobian disagrees with central differences of the residuals beyond their error bound.',
+  'hessian-mismatch': 'The Hessian disagrees with central differences of the gradient beyond their error bound.',
+  'hessian-vector-product-mismatch': 'The Hessian-vector product disagrees with directional differences of the gradient beyond their error bound.',
+  'hessian-not-symmetric': 'The Hessian is not symmetric, so at least one of two mirrored entries is wrong.',
+  'matrix-wrong-shape': 'The Jacobian or Hessian has the wrong shape, is transposed, or has ragged rows.',
+  'matrix-undecided': 'Some entries (or directions) of a Jacobian or Hessian were neither confirmed nor found wrong at any probe, so the target does not pass.',
+  'value-not-a-vector': 'The residual function (or the gradient a Hessian is checked against) returns something that is not an array of numbers, or a different number of values from call to call.',
   'gradient-wrong-length': 'The gradient returns a vector whose length differs from the number of parameters.',
   'gradient-not-a-vector': 'The gradient returns something that is not an array of numbers.',
   'non-finite-value': 'The objective or the gradient returns NaN or Infinity at a probe.',

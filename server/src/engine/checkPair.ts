@@ -15,7 +15,8 @@ import { BudgetSpent, CheckStopped, createUserCalls, describeThrown, makeFinding
 /** The user's functions as the engine sees them; the sandbox builds these. */
 export interface PairFunctions {
   objective(x: Vector): unknown;
-  gradient(x: Vector): unknown;
+  /** The derivative function; a product (a Hessian-vector product) also takes the direction. */
+  gradient(x: Vector, direction?: Vector): unknown;
   /** A fresh vector of the kind (number[] or Float64Array) and realm the user's code expects. */
   makeVector(values: ArrayLike<number>): Vector;
 }
@@ -64,7 +65,7 @@ export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan
  * Given probes; else the user's start with perturbations around it; else seeded
  * standard-normal points when only the dimension is known.
  */
-function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): Float64Array[] | null {
+export function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): Float64Array[] | null {
   const bad = (message: string) => {
     report.status = 'error';
     report.findings.push({ code: 'bad-probe', severity: 'error', subject: 'probe', message });
@@ -310,7 +311,7 @@ function stationaryFinding(stationary: ProbeOutcome[], all: boolean): Finding {
 }
 
 /** The time budget cut the check: what was left undone, with the figures to size the budget. */
-function budgetFinding(calls: UserCalls, what: string): Finding {
+export function budgetFinding(calls: UserCalls, what: string): Finding {
   const made = calls.made();
   return {
     code: 'budget-spent',
@@ -345,7 +346,7 @@ function confirmedComponents(outcomes: ProbeOutcome[]): Set<number> {
   return confirmed;
 }
 
-function readClock(clock: () => number): number {
+export function readClock(clock: () => number): number {
   try {
     const now = clock();
     return typeof now === 'number' && Number.isFinite(now) ? now : 0;

@@ -1,8 +1,9 @@
 // The report of a pair before (or without) any measurement.
-import type { Finding, PairReport, PairStatus } from './types';
+import type { Finding, PairReport, PairStatus, TargetKind } from './types';
 
-export function emptyReport(status: PairStatus, findings: Finding[] = [], dimension: number | null = null): PairReport {
+export function emptyReport(status: PairStatus, findings: Finding[] = [], dimension: number | null = null, kind: TargetKind = 'gradient'): PairReport {
   return {
+    kind,
     status,
     dimension,
     maxRelError: null,

@@ -204,7 +204,7 @@ function checkComponent(search: Search, index: number): void {
 }
 
 /** Balanced random split into `subPools` parts, each kept in index order. */
-function splitPool(pool: number[], random: Random): number[][] {
+export function splitPool(pool: number[], random: Random): number[][] {
   const shuffled = [...pool];
   for (let i = shuffled.length - 1; i > 0; i--) {
     const j = Math.floor(random.uniform() * (i + 1));

@@ -213,7 +213,7 @@ function mismatchFinding(outcome: ProbeOutcome): Finding {
 }
 
 /** Largest |analytic − numerical| / max(|analytic|, |numerical|) among the decided derivatives. */
-function largestRelError(checks: DirectionalCheck[]): number {
+export function largestRelError(checks: DirectionalCheck[]): number {
   const decided = checks.filter((c) => isDecided(c));
   return Math.max(0, ...decided.map((c) => Math.abs(c.analytic - c.numerical) / (Math.max(Math.abs(c.analytic), Math.abs(c.numerical)) || 1)));
 }
@@ -267,7 +267,7 @@ function rank(c: ComponentCheck): number {
 }
 
 /** A row with its non-finite figures made finite for the report, which JSON must carry. */
-function sanitised<Check extends DirectionalCheck>(c: Check): Check {
+export function sanitised<Check extends DirectionalCheck>(c: Check): Check {
   return { ...c, numerical: finiteOr(c.numerical, 0), errorBound: finiteOr(c.errorBound, Number.MAX_VALUE) };
 }
 

@@ -53,8 +53,15 @@ export const defaultCheckOptions: CheckOptions = {
   smoothness: false,
 };
 
-/** What a target checks. Only `gradient` today; Jacobian and Hessian kinds follow. */
-export type TargetKind = 'gradient';
+/**
+ * What a target checks. The value function and its derivative are, by kind: an objective f and
+ * its gradient; residuals r and their Jacobian J (J[i][j] = ∂rᵢ/∂xⱼ); a gradient ∇f and its
+ * Hessian; a gradient and a Hessian-vector product (x, v) ↦ H(x)v. Findings call the first
+ * function the subject 'objective' and the second 'gradient', whatever the kind.
+ */
+export type TargetKind = 'gradient' | 'jacobian' | 'hessian' | 'hessianVectorProduct';
+
+export const targetKinds: readonly TargetKind[] = ['gradient', 'jacobian', 'hessian', 'hessianVectorProduct'];
 
 /**
  * How the sandbox calls one target's functions in the user's realm. Every key below is a
@@ -113,6 +120,13 @@ export interface CheckPlan {
 /** Stable finding codes. They appear in the CLI, SARIF rules and editor diagnostics. */
 export type FindingCode =
   | 'gradient-mismatch'
+  | 'jacobian-mismatch'
+  | 'hessian-mismatch'
+  | 'hessian-vector-product-mismatch'
+  | 'hessian-not-symmetric'
+  | 'matrix-wrong-shape'
+  | 'matrix-undecided'
+  | 'value-not-a-vector'
   | 'gradient-wrong-length'
   | 'gradient-not-a-vector'
   | 'non-finite-value'
@@ -153,6 +167,8 @@ export interface Finding {
   subject: FindingSubject;
   /** 0-based component indices involved (mismatch, non-finite). */
   components?: number[];
+  /** 0-based (row, column) entries of a matrix involved (mismatch, non-finite, asymmetry). */
+  entries?: Array<[number, number]>;
   /** For subject 'recipe': the scope key of the value that could not be used (the host, a data argument, the start). */
   recipeKey?: string;
   /** Index of the probe the finding was seen at. */
@@ -211,10 +227,18 @@ export interface DescentRun {
   decreased: boolean;
 }
 
+/** One entry of a Jacobian or Hessian against its difference: row i (output), column j (coordinate). */
+export interface EntryCheck extends DirectionalCheck {
+  row: number;
+  column: number;
+  relError: number;
+}
+
 export interface ProbeReport {
   /** The point (first 64 coordinates only, for large dimensions). */
   point: number[];
   dimension: number;
+  /** f(x) for a gradient; ‖F(x)‖₂ of the value function's vector for the matrix kinds. */
   value: number;
   /**
    * full: every component; directional: random directions, then the wrong components located;
@@ -224,6 +248,11 @@ export interface ProbeReport {
   mode: 'full' | 'directional' | 'spot';
   /** Every component in full mode; the localised ones in directional mode; the open ones in spot mode. */
   components: ComponentCheck[];
+  /**
+   * Matrix kinds: the entries checked (every one in full mode up to `shownEntries`, else the wrong
+   * and undecided ones); the heat map of the report is drawn from them.
+   */
+  entries?: EntryCheck[];
   directions: DirectionalCheck[];
   /** How the wrong components were located after random directions disagreed (directional mode). */
   localisation?: { pooledDifferences: number; coordinateDifferences: number; incomplete: boolean };
@@ -296,11 +325,47 @@ export interface LearningRateVerdict {
   decreased: boolean[];
 }
 
+/** The shape of a wrong Jacobian or Hessian. Rows are outputs (residuals), columns coordinates. */
+export type MatrixDiagnosis =
+  | { kind: 'transposed' }
+  /** Row i holds the derivatives of output i + shift. */
+  | { kind: 'rowShift'; shift: number }
+  | { kind: 'columnSwap'; pairs: Array<[number, number]> }
+  /** The whole matrix is `factor` × the true one (−1: the sign). */
+  | { kind: 'matrixFactor'; factor: number }
+  /** Each listed column is `factor` × the true column (−1: its sign). */
+  | { kind: 'columnFactor'; columns: Array<{ index: number; factor: number }> }
+  | { kind: 'rowFactor'; rows: Array<{ index: number; factor: number }> }
+  /** Only the diagonal is wrong, by a common factor (a doubled diagonal). */
+  | { kind: 'diagonalFactor'; factor: number }
+  | { kind: 'entry'; row: number; column: number }
+  /** The wrong entries lie within rows [from, to] × columns [from, to]. */
+  | { kind: 'region'; rows: [number, number]; columns: [number, number] }
+  | { kind: 'unknown' };
+
+/** What the matrix kinds add to a report. */
+export interface MatrixSummary {
+  /** Outputs (residuals; n for a Hessian) and coordinates. */
+  rows: number;
+  columns: number;
+  diagnosis: MatrixDiagnosis | null;
+  /** Hessian, when asymmetric: the largest |H[i][j] − H[j][i]| beyond rounding, where it is, and the size it is judged against. */
+  asymmetry?: { row: number; column: number; gap: number; scale: number };
+  /**
+   * Jacobian: the Gauss–Newton model of ½‖r‖² at the probe where the check held: σmax(J)², its
+   * Lipschitz constant, and the condition number of JᵀJ (null when JᵀJ is singular to rounding).
+   */
+  leastSquares?: { probeIndex: number; sigmaMaxSquared: number; sigmaMinSquared: number; conditionNumber: number | null };
+}
+
 export interface PairReport {
+  kind: TargetKind;
   status: PairStatus;
   dimension: number | null;
   maxRelError: number | null;
   diagnosis: Diagnosis | null;
+  /** Matrix kinds only. */
+  matrix?: MatrixSummary;
   smoothness: SmoothnessEstimate | null;
   learningRate: LearningRateVerdict | null;
   probes: ProbeReport[];

@@ -34,8 +34,18 @@ export interface UserCalls {
   readonly counts: { objective: number; gradient: number };
   /** f(x); may be non-finite (callers decide what that means). */
   objective(x: Float64Array, site: CallSite): number;
-  /** ∇f(x) copied into plain numbers; checked for length, may hold non-finite values. */
-  gradient(x: Float64Array, site: CallSite): Float64Array;
+  /**
+   * ∇f(x) copied into plain numbers; checked for length, may hold non-finite values. With
+   * `direction`, the derivative function is a product (x, v) ↦ H(x)v and this is its result.
+   */
+  gradient(x: Float64Array, site: CallSite, direction?: Float64Array): Float64Array;
+  /**
+   * The value function's result as a vector (the residuals r(x), or the gradient a Hessian is
+   * checked against), copied out; every call must give as many values as the first.
+   */
+  outputs(x: Float64Array, site: CallSite): Float64Array;
+  /** The derivative function's raw result (a matrix, or a product with `direction`), for the caller to read. */
+  derivativeResult(x: Float64Array, site: CallSite, direction?: Float64Array): unknown;
   /** Warnings noticed along the way (input mutation), each reported once. */
   readonly warnings: Finding[];
   /** Calls of the objective and the gradient so far. */
@@ -46,7 +56,15 @@ export interface UserCalls {
   remainingMs(): number;
 }
 
-export function createUserCalls(fns: PairFunctions, dimension: number, budget: CallBudget = { clock: () => 0, endsAt: null }): UserCalls {
+/** What messages call the two functions: 'objective' and 'gradient', or e.g. 'residual function' and 'Jacobian'. */
+export interface CallRoles {
+  objective: string;
+  gradient: string;
+}
+
+const gradientRoles: CallRoles = { objective: 'objective', gradient: 'gradient' };
+
+export function createUserCalls(fns: PairFunctions, dimension: number, budget: CallBudget = { clock: () => 0, endsAt: null }, roles: CallRoles = gradientRoles): UserCalls {
   const counts = { objective: 0, gradient: 0 };
   const spentMs = { objective: 0, gradient: 0 };
   const made = () => counts.objective + counts.gradient;
@@ -59,12 +77,16 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
   const warnings: Finding[] = [];
   const mutationSeen = { objective: false, gradient: false };
 
-  function call(which: 'objective' | 'gradient', x: Float64Array, site: CallSite): unknown {
+  let outputCount: number | null = null;
+
+  function call(which: 'objective' | 'gradient', x: Float64Array, site: CallSite, direction?: Float64Array): unknown {
     let argument: unknown;
+    let directionArgument: unknown;
     try {
       argument = fns.makeVector(x);
+      if (direction) directionArgument = fns.makeVector(direction);
     } catch (err) {
-      throw stop('runtime-error', which, `could not build the argument vector for the ${which} at ${describeSite(site)}: ${describeThrown(err).text}`, site);
+      throw stop('runtime-error', which, `could not build the argument vector for the ${roles[which]} at ${describeSite(site)}: ${describeThrown(err).text}`, site);
     }
     // A call expected to end past the budget is not started.
     const started = budget.clock();
@@ -72,16 +94,16 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
     counts[which]++;
     let result: unknown;
     try {
-      result = which === 'objective' ? fns.objective(argument as Float64Array) : fns.gradient(argument as Float64Array);
+      result = which === 'objective' ? fns.objective(argument as Float64Array) : direction ? fns.gradient(argument as Float64Array, directionArgument as Float64Array) : fns.gradient(argument as Float64Array);
       spentMs[which] += Math.max(0, budget.clock() - started);
     } catch (err) {
       const thrown = describeThrown(err);
-      const finding = makeFinding('runtime-error', which, `the ${which} threw at ${describeSite(site)}: ${thrown.text}`, site);
+      const finding = makeFinding('runtime-error', which, `the ${roles[which]} threw at ${describeSite(site)}: ${thrown.text}`, site);
       if (thrown.stack !== undefined) finding.stack = thrown.stack;
       throw new CheckStopped(finding);
     }
     if (isThenable(result)) {
-      throw stop('async-result', which, `the ${which} returned a promise (or other thenable) at ${describeSite(site)}; it must return its result synchronously`, site);
+      throw stop('async-result', which, `the ${roles[which]} returned a promise (or other thenable) at ${describeSite(site)}; it must return its result synchronously`, site);
     }
     checkMutation(which, argument, x, site);
     return result;
@@ -103,7 +125,7 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
     }
     if (changed < 0) return;
     mutationSeen[which] = true;
-    const finding = makeFinding('input-mutated', which, `the ${which} changes its input vector (component ${changed} at ${describeSite(site)}); callers that reuse the point will see a different point`, site);
+    const finding = makeFinding('input-mutated', which, `the ${roles[which]} changes its input vector (component ${changed} at ${describeSite(site)}); callers that reuse the point will see a different point`, site);
     finding.severity = 'warning';
     finding.components = [changed];
     warnings.push(finding);
@@ -123,20 +145,31 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
       }
       return result;
     },
-    gradient(x, site) {
-      const result = call('gradient', x, site);
-      const values = readNumbers(result, site);
+    gradient(x, site, direction) {
+      const result = call('gradient', x, site, direction);
+      const values = readNumbers(result, site, 'gradient', roles.gradient);
       if (values.length !== dimension) {
-        throw stop('gradient-wrong-length', 'gradient', `the gradient has ${values.length} components but the point has ${dimension} (at ${describeSite(site)})`, site);
+        throw stop('gradient-wrong-length', 'gradient', `the ${roles.gradient} has ${values.length} components but the point has ${dimension} (at ${describeSite(site)})`, site);
       }
       return values;
+    },
+    outputs(x, site) {
+      const values = readNumbers(call('objective', x, site), site, 'objective', roles.objective);
+      if (outputCount === null) outputCount = values.length;
+      if (values.length !== outputCount || values.length === 0) {
+        throw stop('value-not-a-vector', 'objective', `the ${roles.objective} returned ${values.length} values at ${describeSite(site)} but ${outputCount} at its first call`, site);
+      }
+      return values;
+    },
+    derivativeResult(x, site, direction) {
+      return call('gradient', x, site, direction);
     },
   };
 }
 
 /** Copies an array-like of numbers out of the user's realm. */
-function readNumbers(result: unknown, site: CallSite): Float64Array {
-  const notAVector = () => stop('gradient-not-a-vector', 'gradient', `the gradient returned ${describeKind(result)}, not an array of numbers (at ${describeSite(site)})`, site);
+function readNumbers(result: unknown, site: CallSite, which: 'objective' | 'gradient', role: string): Float64Array {
+  const notAVector = () => stop(which === 'gradient' ? 'gradient-not-a-vector' : 'value-not-a-vector', which, `the ${role} returned ${describeKind(result)}, not an array of numbers (at ${describeSite(site)})`, site);
   if (result === null || typeof result !== 'object') throw notAVector();
   try {
     const source = result as ArrayLike<unknown>;
@@ -152,7 +185,7 @@ function readNumbers(result: unknown, site: CallSite): Float64Array {
   } catch (err) {
     if (err instanceof CheckStopped) throw err;
     const thrown = describeThrown(err);
-    const finding = makeFinding('runtime-error', 'gradient', `reading the gradient's result threw at ${describeSite(site)}: ${thrown.text}`, site);
+    const finding = makeFinding('runtime-error', which, `reading the ${role}'s result threw at ${describeSite(site)}: ${thrown.text}`, site);
     if (thrown.stack !== undefined) finding.stack = thrown.stack;
     throw new CheckStopped(finding);
   }

@@ -2,7 +2,8 @@
 // JSON, SARIF), the editor's diagnostic (with the user's names), the hover and the report (the
 // shape of the error). Everything is worded from a probe's report, so every reader gets the same.
 import { formatBound, formatList, formatValue, shortNumber } from './format';
-import type { ComponentCheck, Diagnosis, ProbeReport } from './types';
+import type { KindWording } from './kindWording';
+import type { ComponentCheck, Diagnosis, MatrixDiagnosis, ProbeReport } from './types';
 
 /** The shape of a wrong gradient in a few words. */
 export function describeDiagnosis(diagnosis: Diagnosis | null): string {
@@ -64,4 +65,59 @@ function describeComponents(components: ComponentCheck[]): string {
 
 function capitalised(text: string): string {
   return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** The shape of a wrong Jacobian or Hessian in a few words; rows are outputs, columns coordinates. */
+export function describeMatrixDiagnosis(diagnosis: MatrixDiagnosis | null, wording: KindWording): string {
+  if (!diagnosis) return 'wrong';
+  const factorWords = (factor: number) => (factor === -1 ? 'has the wrong sign' : `is ${shortNumber(factor, 6)}× the true one`);
+  switch (diagnosis.kind) {
+    case 'transposed':
+      return 'transposed (row i holds the derivatives along coordinate i)';
+    case 'rowShift':
+      return `rows shifted by one ${wording.output} (row i holds ${wording.output} i ${diagnosis.shift > 0 ? '+' : '−'} 1)`;
+    case 'columnSwap':
+      return `columns swapped (${diagnosis.pairs.map(([i, j]) => `${i} ↔ ${j}`).join(', ')})`;
+    case 'matrixFactor':
+      return diagnosis.factor === -1 ? 'sign flipped' : `off by a constant factor (${shortNumber(diagnosis.factor, 6)}× the true ${wording.derivative})`;
+    case 'columnFactor':
+      return diagnosis.columns.map((c) => `column ${c.index} ${factorWords(c.factor)}`).join('; ');
+    case 'rowFactor':
+      return diagnosis.rows.map((r) => `row ${r.index} (${wording.output} ${r.index}) ${factorWords(r.factor)}`).join('; ');
+    case 'diagonalFactor':
+      return `the diagonal alone is wrong: ${shortNumber(diagnosis.factor, 6)}× the true one`;
+    case 'entry':
+      return `one entry wrong, ${wording.entry(diagnosis.row, diagnosis.column)}`;
+    case 'region':
+      return `wrong entries confined to rows ${span(diagnosis.rows)}, columns ${span(diagnosis.columns)}`;
+    default:
+      return 'wrong, with no simple pattern';
+  }
+}
+
+function span([from, to]: [number, number]): string {
+  return from === to ? `${from}` : `${from}–${to}`;
+}
+
+/**
+ * A wrong Jacobian or Hessian at one probe: the shape of the error, then the wrong entries with
+ * analytic and numerical values and bounds, and in directional mode how they were located.
+ */
+export function matrixMismatchMessage(probe: ProbeReport, probeIndex: number, diagnosis: MatrixDiagnosis | null, wording: KindWording, names: MismatchNames = { gradient: `the ${wording.derivative}`, objective: null }): string {
+  let head = `${names.gradient} disagrees with central differences${names.objective ? ` of ${names.objective}` : ''} at probe ${probeIndex + 1}`;
+  const directions = probe.directions.filter((d) => d.mismatch);
+  if (directions.length > 0) head += ` along ${directions.length} of ${probe.directions.length} random ${probe.directions.length === 1 ? 'direction' : 'directions'}`;
+  const sentences = [`${head}: ${describeMatrixDiagnosis(diagnosis, wording)}.`];
+  const wrong = (probe.entries ?? []).filter((e) => e.mismatch);
+  if (wrong.length > 0) {
+    const parts = wrong.slice(0, shownComponents).map((e) => `${wording.entry(e.row, e.column)}: analytic ${formatValue(e.analytic)}, numerical ${formatValue(e.numerical)} ± ${formatBound(e.errorBound)}`);
+    if (wrong.length > shownComponents) parts.push(`and ${wrong.length - shownComponents} more`);
+    sentences.push(`${capitalised(parts.join('; '))}.`);
+  }
+  const located = probe.localisation;
+  if (located) {
+    const stopped = located.incomplete ? '; the search stopped before every discrepancy was explained, so more entries may be wrong' : '';
+    sentences.push(`Located by ${located.pooledDifferences} pooled directional and ${located.coordinateDifferences} column differences${stopped}.`);
+  }
+  return sentences.join(' ');
 }

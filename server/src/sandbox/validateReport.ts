@@ -11,9 +11,12 @@ import type {
   DescentRun,
   Diagnosis,
   DirectionalCheck,
+  EntryCheck,
   Finding,
   FindingSubject,
   LearningRateVerdict,
+  MatrixDiagnosis,
+  MatrixSummary,
   PairReport,
   PairStatus,
   ProbeReport,
@@ -21,8 +24,10 @@ import type {
   Severity,
   SmoothnessEstimate,
   StepStudy,
+  TargetKind,
   UndecidedReason,
 } from '../engine/types';
+import { targetKinds } from '../engine/types';
 import {
   boolean,
   count,
@@ -114,6 +119,7 @@ const compared = { analytic: measurement, numerical: measurement, errorBound: me
 const undecided = { undecided: oneOf(wordsOf<UndecidedReason>({ 'bound-too-wide': true, 'singular-within-step': true, 'not-smooth': true, stationary: true, 'out-of-time': true })) };
 const directionalCheck = objectOf<DirectionalCheck>(compared, undecided);
 const componentCheck = objectOf<ComponentCheck>({ index: count, ...compared, relError: measurement }, undecided);
+const entryCheck = objectOf<EntryCheck>({ row: count, column: count, ...compared, relError: measurement }, undecided);
 
 const stepStudy = objectOf<StepStudy>(
   {
@@ -147,13 +153,17 @@ const probeReport = objectOf<ProbeReport>(
     smoothness: nullOr(probeSmoothness),
     descent: listOf(descentRun, reportLimits.descentRuns),
   },
-  { localisation: objectOf<NonNullable<ProbeReport['localisation']>>({ pooledDifferences: count, coordinateDifferences: count, incomplete: boolean }, {}) },
+  {
+    localisation: objectOf<NonNullable<ProbeReport['localisation']>>({ pooledDifferences: count, coordinateDifferences: count, incomplete: boolean }, {}),
+    entries: mostTellingOf(entryCheck, reportLimits.entries, mismatchRank),
+  },
 );
 
 const finding = objectOf<Finding>(
   { code, severity, message: messageText, subject },
   {
     components: indices,
+    entries: listOf(countPair, reportLimits.numbers),
     // A scope key cut short names no line any more; the finding then stays on the objective.
     recipeKey: longText,
     probeIndex: count,
@@ -174,6 +184,31 @@ const diagnosisOfKind: { [K in Diagnosis['kind']]: Reader<Extract<Diagnosis, { k
 const diagnosisKind = objectOf<Pick<Diagnosis, 'kind'>>({ kind: oneOf(Object.keys(diagnosisOfKind) as Array<Diagnosis['kind']>) }, {});
 const diagnosis: Reader<Diagnosis> = (value, at) => diagnosisOfKind[diagnosisKind(value, at).kind](value, at);
 
+/** Each kind of matrix diagnosis with the fields it has. */
+const indexFactor = objectOf<{ index: number; factor: number }>({ index: count, factor: measurement }, {});
+const matrixDiagnosisOfKind: { [K in MatrixDiagnosis['kind']]: Reader<Extract<MatrixDiagnosis, { kind: K }>> } = {
+  transposed: objectOf({ kind: oneOf(['transposed']) }, {}),
+  rowShift: objectOf({ kind: oneOf(['rowShift']), shift: finite }, {}),
+  columnSwap: objectOf({ kind: oneOf(['columnSwap']), pairs: listOf(countPair, reportLimits.numbers) }, {}),
+  matrixFactor: objectOf({ kind: oneOf(['matrixFactor']), factor: measurement }, {}),
+  columnFactor: objectOf({ kind: oneOf(['columnFactor']), columns: listOf(indexFactor, reportLimits.numbers) }, {}),
+  rowFactor: objectOf({ kind: oneOf(['rowFactor']), rows: listOf(indexFactor, reportLimits.numbers) }, {}),
+  diagonalFactor: objectOf({ kind: oneOf(['diagonalFactor']), factor: measurement }, {}),
+  entry: objectOf({ kind: oneOf(['entry']), row: count, column: count }, {}),
+  region: objectOf({ kind: oneOf(['region']), rows: countPair, columns: countPair }, {}),
+  unknown: objectOf({ kind: oneOf(['unknown']) }, {}),
+};
+const matrixDiagnosisKind = objectOf<Pick<MatrixDiagnosis, 'kind'>>({ kind: oneOf(Object.keys(matrixDiagnosisOfKind) as Array<MatrixDiagnosis['kind']>) }, {});
+const matrixDiagnosis: Reader<MatrixDiagnosis> = (value, at) => matrixDiagnosisOfKind[matrixDiagnosisKind(value, at).kind](value, at);
+
+const matrixSummary = objectOf<MatrixSummary>(
+  { rows: count, columns: count, diagnosis: nullOr(matrixDiagnosis) },
+  {
+    asymmetry: objectOf<NonNullable<MatrixSummary['asymmetry']>>({ row: count, column: count, gap: measurement, scale: measurement }, {}),
+    leastSquares: objectOf<NonNullable<MatrixSummary['leastSquares']>>({ probeIndex: count, sigmaMaxSquared: measurement, sigmaMinSquared: measurement, conditionNumber: nullOr(measurement) }, {}),
+  },
+);
+
 const smoothnessEstimate = objectOf<SmoothnessEstimate>(
   { lipschitz: measurement, mu: measurement, kappa: nullOr(measurement), safeStep: measurement, divergenceStep: nullOr(measurement) },
   { lipschitzResidual: measurement, muResidual: measurement, widened: boolean, productError: measurement },
@@ -187,6 +222,7 @@ const learningRateVerdict = objectOf<LearningRateVerdict>(
 const pairReport = objectOf<PairReport>(
   {
     status,
+    kind: oneOf<TargetKind>(targetKinds),
     dimension: nullOr(count),
     maxRelError: nullOr(measurement),
     diagnosis: nullOr(diagnosis),
@@ -197,5 +233,5 @@ const pairReport = objectOf<PairReport>(
     evaluations: objectOf<PairReport['evaluations']>({ objective: count, gradient: count }, {}),
     elapsedMs: nonNegative,
   },
-  {},
+  { matrix: matrixSummary },
 );

@@ -28,6 +28,7 @@ export function sumOfSquares(name: string, start: number[], startValue: number |
     g: (x) => gradientWithout(x, -1),
     gradientWithoutTerm: gradientWithout,
     termCount: model(start).r.length,
+    residuals: model,
     ...extra,
   };
 }

@@ -18,6 +18,8 @@ export interface TestProblem {
   gradientWithoutTerm?: (x: ArrayLike<number>, term: number) => number[];
   /** Number of residuals, when `gradientWithoutTerm` exists. */
   termCount?: number;
+  /** For sums of squares: the residuals r(x) and their Jacobian J(x), as the problem's source states them. */
+  residuals?: (x: ArrayLike<number>) => { r: number[]; J: number[][] };
 }
 
 /** Plain-array vectors, as for `number[]` parameters. */

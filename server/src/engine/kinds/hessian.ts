@@ -1,0 +1,62 @@
+// Kind `hessian`: a gradient ∇f: Rⁿ → Rⁿ and its Hessian H (n × n), checked entry by entry
+// against differences of the gradient, and for symmetry: H of a twice continuously
+// differentiable f is symmetric (Schwarz), so an asymmetric H is wrong whatever the
+// differences can tell. Once it holds, its exact spectrum at the probe gives L̂.
+import { readMatrix, times, type DenseMatrix } from '../matrixRead';
+import type { MatrixKind } from '../matrixTarget';
+import type { Finding, MatrixSummary } from '../types';
+import { CheckStopped, makeFinding } from '../userCalls';
+import { smoothnessFromMatrix } from './spectrum';
+
+/**
+ * |H[i][j] − H[j][i]| beyond this share of the larger of the two (and of 10⁻¹⁰ of the largest
+ * entry) is asymmetry, not the rounding of two orderings of the same sums (common practice).
+ */
+const asymmetryShare = 1e-6;
+const negligibleShare = 1e-10;
+
+export const hessianKind: MatrixKind = {
+  kind: 'hessian',
+  analyticAt(calls, x, outputs, site) {
+    if (outputs !== x.length) throw new CheckStopped(makeFinding('gradient-wrong-length', 'objective', `the gradient has ${outputs} components but the point has ${x.length}`, site));
+    const dense = readMatrix(calls.derivativeResult(x, site), x.length, x.length, 'Hessian', site);
+    return { dense, times: (v) => times(dense, v) };
+  },
+  canCheckWhole: (n, options) => n <= options.fullCheckMaxDimension,
+  afterCheck(outcomes, report, plan) {
+    const first = outcomes[0].context.analytic.dense;
+    if (!first) return;
+    const asymmetry = largestAsymmetry(first);
+    if (asymmetry) {
+      report.matrix!.asymmetry = asymmetry;
+      report.findings.push(asymmetryFinding(asymmetry, outcomes[0].context.probeIndex));
+      if (report.status !== 'error') report.status = 'fail';
+      return;
+    }
+    if (report.status === 'fail' || report.status === 'error') return;
+    const held = outcomes.find((o) => o.complete && o.context.analytic.dense);
+    if (held) smoothnessFromMatrix(held.context.analytic.dense!.values, first.rows, held.report, report, plan);
+  },
+};
+
+export function largestAsymmetry(h: DenseMatrix): MatrixSummary['asymmetry'] | null {
+  const n = h.rows;
+  const largestEntry = Math.max(...h.values.map(Math.abs));
+  let worst: { row: number; column: number; gap: number; scale: number } | null = null;
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const [a, b] = [h.values[i * n + j], h.values[j * n + i]];
+      const gap = Math.abs(a - b);
+      const scale = Math.max(Math.abs(a), Math.abs(b));
+      if (gap > asymmetryShare * scale && gap > negligibleShare * largestEntry && (!worst || gap / scale > worst.gap / worst.scale)) worst = { row: i, column: j, gap, scale };
+    }
+  }
+  return worst;
+}
+
+function asymmetryFinding(asymmetry: NonNullable<MatrixSummary['asymmetry']>, probeIndex: number): Finding {
+  const { row, column } = asymmetry;
+  const finding = makeFinding('hessian-not-symmetric', 'gradient', `the Hessian is not symmetric at probe ${probeIndex + 1}: H[${row}][${column}] and H[${column}][${row}] differ by ${asymmetry.gap.toPrecision(3)} (${(asymmetry.gap / asymmetry.scale).toPrecision(2)} of the larger); a Hessian of a smooth function is symmetric, so at least one of them is wrong`, { probeIndex, point: 'the probe' });
+  finding.entries = [[row, column], [column, row]];
+  return finding;
+}

@@ -1,0 +1,137 @@
+// The Jacobian kind on the least-squares problems of Moré, Garbow & Hillstrom, "Testing
+// Unconstrained Optimization Software", ACM TOMS 7(1), 1981, in residual form at their standard
+// starting points: the published Jacobians pass (their entries are cross-checked against
+// independent differences in test/support/problems/problems.test.ts), and planted bugs are
+// caught with the shape of the error named.
+import assert from 'node:assert/strict';
+import { describe, test } from 'node:test';
+import { checkByKind } from '../../server/src/engine/kinds';
+import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
+import { makeArray, moreGarbowHillstromSet, type TestProblem } from '../support/problems';
+
+type Residuals = NonNullable<TestProblem['residuals']>;
+type Mutant = (J: number[][], x: ArrayLike<number>) => unknown;
+
+const leastSquares = moreGarbowHillstromSet.filter((p) => p.residuals);
+
+function checkJacobian(p: TestProblem, mutate: Mutant = (J) => J, probes: number[][] = [p.start]): PairReport {
+  const model = p.residuals as Residuals;
+  return checkByKind.jacobian(
+    { objective: (x) => model(x as number[]).r, gradient: (x) => mutate(model(x as number[]).J.map((row) => row.slice()), x as number[]), makeVector: makeArray },
+    probes,
+    { dimension: null, learningRate: null, options: defaultCheckOptions },
+  );
+}
+
+describe('Jacobian kind on the Moré–Garbow–Hillstrom residuals', () => {
+  test('there are at least ten least-squares problems in residual form', () => {
+    assert.ok(leastSquares.length >= 10, `${leastSquares.length}`);
+  });
+
+  for (const p of leastSquares) {
+    test(`${p.name}: the published Jacobian passes at x0 (no false alarm)`, () => {
+      const report = checkJacobian(p);
+      assert.notEqual(report.status, 'fail', report.findings.map((f) => f.message).join('\n'));
+      assert.notEqual(report.status, 'error', report.findings.map((f) => f.message).join('\n'));
+      assert.equal(report.kind, 'jacobian');
+      assert.equal(report.matrix?.rows, p.termCount);
+      assert.equal(report.matrix?.columns, p.start.length);
+    });
+  }
+
+  test('most published Jacobians pass outright, not merely without alarm', () => {
+    const passed = leastSquares.filter((p) => checkJacobian(p).status === 'pass');
+    assert.ok(passed.length >= leastSquares.length - 2, `passed: ${passed.map((p) => p.name).join(', ')}`);
+  });
+});
+
+describe('planted Jacobian bugs are caught and named', () => {
+  const byName = (prefix: string) => leastSquares.find((p) => p.name.startsWith(prefix))!;
+
+  test('two columns swapped (Bard, m = 15, n = 3)', () => {
+    const report = checkJacobian(byName('Bard'), (J) => J.map((row) => [row[0], row[2], row[1]]));
+    assert.equal(report.status, 'fail');
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'columnSwap', pairs: [[1, 2]] });
+    const finding = report.findings.find((f) => f.code === 'jacobian-mismatch')!;
+    assert.match(finding.message, /columns swapped \(1 ↔ 2\)/);
+    assert.ok(finding.entries && finding.entries.some(([, j]) => j === 1));
+  });
+
+  test('a square Jacobian transposed (helical valley, 3 × 3)', () => {
+    const report = checkJacobian(byName('helical'), (J) => J[0].map((_, j) => J.map((row) => row[j])));
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'transposed' });
+  });
+
+  test('a column with a flipped sign, and a column off by a factor (Meyer)', () => {
+    const signed = checkJacobian(byName('Meyer'), (J) => J.map((row) => [row[0], -row[1], row[2]]));
+    assert.deepEqual(signed.matrix?.diagnosis, { kind: 'columnFactor', columns: [{ index: 1, factor: -1 }] });
+    const scaled = checkJacobian(byName('Meyer'), (J) => J.map((row) => [row[0], row[1], 2 * row[2]]));
+    assert.deepEqual(scaled.matrix?.diagnosis, { kind: 'columnFactor', columns: [{ index: 2, factor: 2 }] });
+  });
+
+  test('rows shifted by one residual (Kowalik and Osborne, m = 11)', () => {
+    const report = checkJacobian(byName('Kowalik'), (J) => [...J.slice(1), J[0]]);
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'rowShift', shift: 1 });
+  });
+
+  test('one entry off by 1e-2, 1e-4 and 1e-6 relative (Jennrich and Sampson)', () => {
+    for (const size of [1e-2, 1e-4, 1e-6]) {
+      const report = checkJacobian(byName('Jennrich'), (J) => {
+        J[4][1] *= 1 + size;
+        return J;
+      });
+      assert.equal(report.status, 'fail', `size ${size}: ${report.findings.map((f) => f.message).join('\n')}`);
+      assert.deepEqual(report.matrix?.diagnosis, { kind: 'entry', row: 4, column: 1 }, `size ${size}`);
+    }
+  });
+
+  test('errors confined to a block (Brown and Dennis: residuals 5–9 miss the chain rule in column 3)', () => {
+    const report = checkJacobian(byName('Brown and Dennis'), (J) => J.map((row, i) => (i >= 5 && i <= 9 ? [row[0], row[1], row[2], row[3] * 1.1] : row)));
+    assert.equal(report.status, 'fail');
+    const diagnosis = report.matrix?.diagnosis;
+    assert.ok(diagnosis && (diagnosis.kind === 'region' || diagnosis.kind === 'rowFactor'), JSON.stringify(diagnosis));
+  });
+});
+
+describe('bad Jacobian shapes are findings that name both shapes', () => {
+  const bard = leastSquares.find((p) => p.name.startsWith('Bard'))!;
+  const shapeMessage = (mutate: Mutant) => {
+    const report = checkJacobian(bard, mutate);
+    assert.equal(report.status, 'error');
+    return report.findings.find((f) => f.code === 'matrix-wrong-shape' || f.code === 'non-finite-value')!;
+  };
+
+  test('n × m is reported as transposed', () => {
+    const finding = shapeMessage((J) => J[0].map((_, j) => J.map((row) => row[j])));
+    assert.equal(finding.code, 'matrix-wrong-shape');
+    assert.match(finding.message, /3 × 15.*must be 15 × 3.*transposed/);
+  });
+
+  test('one row missing', () => {
+    assert.match(shapeMessage((J) => J.slice(1)).message, /14 × 3.*must be 15 × 3/);
+  });
+
+  test('ragged rows name the row', () => {
+    assert.match(shapeMessage((J) => J.map((row, i) => (i === 7 ? row.slice(0, 2) : row))).message, /ragged rows.*row 7 has 2/);
+  });
+
+  test('NaN entries are named', () => {
+    const finding = shapeMessage((J) => J.map((row, i) => (i === 2 ? [row[0], Number.NaN, row[2]] : row)));
+    assert.equal(finding.code, 'non-finite-value');
+    assert.deepEqual(finding.entries, [[2, 1]]);
+  });
+
+  test('a flat row-major Float64Array of m·n values is read as the matrix', () => {
+    const report = checkJacobian(bard, (J) => Float64Array.from(J.flat()));
+    assert.equal(report.status, 'pass', report.findings.map((f) => f.message).join('\n'));
+  });
+
+  test('a flat array of the wrong length says how many it must hold', () => {
+    assert.match(shapeMessage((J) => Float64Array.from(J.flat().slice(3))).message, /flat array of 42 numbers.*holds 45/);
+  });
+
+  test('an object stating its shape is read by it', () => {
+    const report = checkJacobian(bard, (J) => ({ rows: 15, cols: 3, data: J.flat() }));
+    assert.equal(report.status, 'pass');
+  });
+});
