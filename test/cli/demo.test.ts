@@ -76,7 +76,7 @@ describe('slopecheck --format json over the demo workspace', () => {
 test('text format: a table with one row per pair and the local-estimate caution', async () => {
   const run = await runCli([demoDir]);
   assert.equal(run.code, 1);
-  assert.match(run.stdout, /line\s+objective → gradient\s+verdict/);
+  assert.match(run.stdout, /line\s+function → derivative\s+verdict/);
   for (const want of expected) assert.ok(run.stdout.includes(want.objective), `row for ${want.objective}`);
   assert.match(run.stdout, /local estimates near the probe points/);
   assert.match(run.stdout, /\d+ pairs in \d+ files: \d+ matching, \d+ wrong, \d+ undecided, \d+ not checked/);

@@ -92,7 +92,7 @@ test('@gradientOf pairs a gradient of any name and wins over name matching', () 
   const result = discoverPairs(text, 'model.ts');
   const pair = onlyPair(result);
   assert.equal(pair.plan.recipe.derivative, 'analyticSlope');
-  assert.equal(pair.matchedBy, 'gradientOf-tag');
+  assert.equal(pair.matchedBy, 'tag');
 });
 
 test('@gradientOf may name the local function behind an export { a as b }', () => {

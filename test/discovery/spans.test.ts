@@ -100,7 +100,7 @@ test('JavaScript files: JSDoc tags, JSDoc parameter types and export forms', () 
   assert.deepEqual(
     result.pairs.map((pair) => [pair.objective.name, pair.gradient?.name ?? null, pair.matchedBy, pair.plan.dimension, pair.plan.argumentKind]),
     [
-      ['loss', 'slope', 'gradientOf-tag', 2, 'array'],
+      ['loss', 'slope', 'tag', 2, 'array'],
       ['energy', 'energyGrad', 'name', 3, 'float64array'],
       ['both', null, 'combined', null, 'array'],
     ],

@@ -5,11 +5,10 @@
 // first of them ran the user's code.
 import type { PairReport, ProbeReport } from '../../../server/src/engine/types';
 import type { PairReportResult } from '../../../server/src/shared/protocol';
-import { describeDiagnosis, noDivergenceStep, verdictWords } from '../../../server/src/shared/wording';
+import { derivativeRows, errorShapeOf, functionWords, noDivergenceStep, verdictOf } from '../../../server/src/shared/wording';
 import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from './format';
+import { errorHeatMap } from './heatMap';
 import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
-
-const verdicts = verdictWords;
 
 export const localEstimateCaution =
   'Every smoothness figure (L̂, μ̂, κ̂, 1/L̂, 2/λ⁺) is a local estimate measured near the probe points, not a bound over the whole domain: far from the probes the objective may be much steeper.';
@@ -22,19 +21,21 @@ export function renderReport(result: PairReportResult): string {
   const pairName = result.gradient ? `${result.objective} / ${result.gradient}` : result.objective;
   return [
     `<header class="report-header"><h1>${esc(pairName)}</h1>`,
-    `<span class="verdict verdict-${esc(report.status)}" data-status="${esc(report.status)}">${esc(verdicts[report.status])}</span>`,
+    `<span class="verdict verdict-${esc(report.status)}" data-status="${esc(report.status)}">${esc(verdictOf(report))}</span>`,
     '<div class="actions"><button type="button" data-action="check-again">Check again</button>',
     '<button type="button" data-action="copy-json">Copy as JSON</button></div></header>',
     `<p class="caution" role="note">${esc(localEstimateCaution)}</p>`,
     findingsList(report),
     `<section class="figures"><h2>Figures</h2>${figuresTable(report)}</section>`,
     '<section class="plots"><h2>Plots</h2>',
-    plotFigure(gradientPlot(report.probes[worst], Math.max(worst, 0)), worst >= 0 ? `At probe ${worst + 1}, the one with the largest relative error.` : ''),
+    report.matrix
+      ? plotFigure(errorHeatMap(report.kind, report.probes[worst], Math.max(worst, 0)), 'Each cell is one entry: row i an output, column j a coordinate.')
+      : plotFigure(gradientPlot(report.probes[worst], Math.max(worst, 0)), worst >= 0 ? `At probe ${worst + 1}, the one with the largest relative error.` : ''),
     plotFigure(stepErrorPlot(studied?.stepStudy), 'The chosen step balances truncation error (large h) against rounding error (small h).'),
     plotFigure(eigenvaluePlot(report.probes, report.smoothness), 'Ritz values of the Lanczos iteration on Hessian-vector products.'),
     plotFigure(descentPlot(withDescent?.descent), 'Gradient steps w ← w − α∇f(w) from a probe.'),
     '</section>',
-    worst >= 0 ? `<section class="components"><h2>Derivatives at probe ${worst + 1}</h2>${componentTable(report.probes[worst])}</section>` : '',
+    worst >= 0 ? `<section class="components"><h2>Derivatives at probe ${worst + 1}</h2>${componentTable(report, report.probes[worst])}</section>` : '',
     consoleSection(result.console),
     `<footer class="settings">${esc(`Checked with seed ${result.settings.seed}, ${result.settings.probeCount} random probes when none is given, time limit ${formatDuration(result.settings.timeoutMs)}.`)}</footer>`,
   ].join('');
@@ -72,10 +73,19 @@ function findingsList(report: PairReport): string {
 function figuresTable(report: PairReport): string {
   const s = report.smoothness;
   const rate = report.learningRate;
+  const words = functionWords(report.kind);
+  const leastSquares = report.matrix?.leastSquares;
   const rows: Array<[string, string]> = [
-    ['Verdict', verdicts[report.status]],
+    ['Verdict', verdictOf(report)],
     ['Max relative error', formatBound(report.maxRelError)],
-    ['Shape of the error', report.diagnosis ? describeDiagnosis(report.diagnosis) : '—'],
+    ['Shape of the error', errorShapeOf(report) ?? '—'],
+    ...(report.matrix ? [['Shape of the matrix', `${report.matrix.rows} × ${report.matrix.columns}`] as [string, string]] : []),
+    ...(leastSquares
+      ? ([
+          ['σmax(J)²: L of the Gauss–Newton model of ½‖r‖²', formatFigure(leastSquares.sigmaMaxSquared)],
+          ['cond(JᵀJ)', leastSquares.conditionNumber === null ? 'singular to rounding' : formatFigure(leastSquares.conditionNumber)],
+        ] as Array<[string, string]>)
+      : []),
     ['L̂ (local Lipschitz estimate)', formatFigure(s?.lipschitz)],
     ['Safe step 1/L̂', formatFigure(s?.safeStep)],
     ['Divergence step 2/λ⁺', s?.divergenceStep === null ? noDivergenceStep : formatFigure(s?.divergenceStep)],
@@ -84,37 +94,26 @@ function figuresTable(report: PairReport): string {
     ['Learning rate', rate ? `${rate.name} = ${formatFigure(rate.value)}: ${rate.status}` : 'none declared'],
     ['Dimension', formatFigure(report.dimension)],
     ['Probes', String(report.probes.length)],
-    ['Evaluations', `f ${report.evaluations.objective}, ∇f ${report.evaluations.gradient}`],
+    ['Evaluations', `${words.value} ${report.evaluations.objective}, ${words.derivative} ${report.evaluations.gradient}`],
     ['Time', formatDuration(report.elapsedMs)],
   ];
   const body = rows.map(([name, value]) => `<tr><th scope="row">${esc(name)}</th><td>${esc(value)}</td></tr>`).join('');
   return `<table class="figures-table" id="figures-table"><tbody>${body}</tbody></table>`;
 }
 
-function componentTable(probe: ProbeReport): string {
-  const head = (first: string) =>
-    `<thead><tr><th scope="col">${first}</th><th scope="col">analytic</th><th scope="col">numerical</th><th scope="col">error bound</th><th scope="col">relative error</th><th scope="col"></th></tr></thead>`;
-  const mark = (mismatch: boolean) => (mismatch ? '<td class="mismatch-cell">✗ mismatch</td>' : '<td></td>');
-  if (probe.components.length > 0) {
-    const rows = probe.components
-      .map(
-        (c) =>
-          `<tr class="${c.mismatch ? 'mismatch' : ''}" data-index="${esc(c.index)}">` +
-          cells([c.index, formatFigure(c.analytic), formatFigure(c.numerical), formatBound(c.errorBound), formatBound(c.relError)]) +
-          `${mark(c.mismatch)}</tr>`,
-      )
-      .join('');
-    return `<table class="component-table">${head('component')}<tbody>${rows}</tbody></table>`;
-  }
-  const rows = probe.directions
+/** The compared derivatives of a probe, whatever the kind: components, entries or directions. */
+function componentTable(report: PairReport, probe: ProbeReport): string {
+  const { heading, rows } = derivativeRows(report.kind, probe);
+  const head = `<thead><tr><th scope="col">${esc(heading)}</th><th scope="col">analytic</th><th scope="col">numerical</th><th scope="col">error bound</th><th scope="col">relative error</th><th scope="col"></th></tr></thead>`;
+  const body = rows
     .map(
-      (d, i) =>
-        `<tr class="${d.mismatch ? 'mismatch' : ''}" data-index="${i}">` +
-        cells([i + 1, formatFigure(d.analytic), formatFigure(d.numerical), formatBound(d.errorBound), '']) +
-        `${mark(d.mismatch)}</tr>`,
+      (row) =>
+        `<tr class="${row.mismatch ? 'mismatch' : ''}" data-index="${esc(row.label)}">` +
+        cells([row.label, formatFigure(row.analytic), formatFigure(row.numerical), formatBound(row.bound), row.relError === null ? '' : formatBound(row.relError)]) +
+        `${row.mismatch ? '<td class="mismatch-cell">✗ mismatch</td>' : '<td></td>'}</tr>`,
     )
     .join('');
-  return `<table class="component-table">${head('direction')}<tbody>${rows}</tbody></table>`;
+  return `<table class="component-table">${head}<tbody>${body}</tbody></table>`;
 }
 
 /** Table cells, each value escaped. */

@@ -42,6 +42,10 @@ svg.plot .numerical, svg.plot .numerical-swatch { fill: none; stroke: var(--vsco
 svg.plot .error-bar line { stroke: var(--vscode-charts-green); stroke-width: 1.2; }
 svg.plot .mismatch-band, svg.plot .mismatch-swatch { fill: var(--vscode-charts-red); fill-opacity: 0.15; }
 svg.plot .mismatch-mark { fill: var(--vscode-charts-red); font-weight: 700; }
+svg.plot .heat-cell { stroke: var(--vscode-editor-background); stroke-width: 1; }
+svg.plot .heat-wrong { fill: var(--vscode-charts-red); }
+svg.plot .heat-agrees { fill: var(--vscode-charts-green); fill-opacity: 0.25; }
+svg.plot .heat-undecided { fill: var(--vscode-descriptionForeground); fill-opacity: 0.35; }
 svg.plot .step-error-line { fill: none; stroke: var(--vscode-charts-blue); stroke-width: 1.5; }
 svg.plot .step-point, svg.plot .step-error-swatch { fill: var(--vscode-charts-blue); }
 svg.plot .chosen-step line { stroke: var(--vscode-charts-orange); stroke-dasharray: 4 3; stroke-width: 1.5; }

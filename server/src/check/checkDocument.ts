@@ -32,8 +32,8 @@ export interface DocumentCheck {
 }
 
 export interface CheckDocumentHooks {
-  /** Check only the pair of this objective (the others are left out of the result). */
-  onlyObjective?: string;
+  /** Check only the target with this key (DiscoveredPair.key; the others are left out of the result). */
+  onlyTarget?: string;
   /** Called after each pair, e.g. for progress reports. */
   onPairChecked?(done: number, total: number, objective: string): void;
   /** Workspace files that import `fileName`, asked only when a pair needs data its own file lacks. */
@@ -69,7 +69,7 @@ export async function checkDocument(
     const importers = await hooks.importersOf(fileName);
     if (importers.length > 0) discovery = discoverPairs(text, fileName, () => importers);
   }
-  const wanted = discovery.pairs.filter((pair) => hooks.onlyObjective === undefined || pair.objective.name === hooks.onlyObjective);
+  const wanted = discovery.pairs.filter((pair) => hooks.onlyTarget === undefined || pair.key === hooks.onlyTarget);
   const toCheck = wanted.filter((pair) => !pair.skipped);
   const result: DocumentCheck = { fileName, pairs: [], fileFindings: discovery.fileFindings, skipped: wanted.filter((pair) => pair.skipped) };
   if (toCheck.length === 0) return result;
@@ -105,6 +105,8 @@ export async function checkDocument(
       const plan: CheckPlan = { ...pair.plan, options };
       const run = await pool.run(bundle, plan, signal);
       run.report.findings.unshift(...pair.findings);
+      // The plan says what was checked: a report the sandbox could not write (a timeout, a crash) says nothing of it.
+      run.report.kind = pair.kind;
       result.pairs.push({ pair, report: run.report, console: run.console });
     }
     hooks.onPairChecked?.(result.pairs.length, toCheck.length, pair.objective.name);
@@ -117,7 +119,7 @@ function unrunOutcome(pair: DiscoveredPair, findings: Finding[], status: PairSta
   return {
     pair,
     console: [],
-    report: emptyReport(status, findings, pair.plan.dimension ?? pair.plan.probes[0]?.length ?? null),
+    report: emptyReport(status, findings, pair.plan.dimension ?? pair.plan.probes[0]?.length ?? null, pair.kind),
   };
 }
 

@@ -36,9 +36,12 @@ export function formatJson(outcomes: FileOutcome[], meta: { version: string; see
         message: f.message,
         line: findingLine(outcome.check!.fileName, pair, f),
         ...(f.components ? { components: f.components } : {}),
+        ...(f.entries ? { entries: f.entries } : {}),
       })),
       dimension: report.dimension,
       diagnosis: report.diagnosis,
+      // Jacobians and Hessians: the shape, the shape of the error, asymmetry and the least-squares figures.
+      ...(report.matrix ? { matrix: report.matrix } : {}),
       mu: report.smoothness?.mu ?? null,
       kappa: report.smoothness?.kappa ?? null,
       divergenceStep: report.smoothness?.divergenceStep ?? null,

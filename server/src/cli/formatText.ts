@@ -5,11 +5,11 @@ import type { Finding, Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
 import { printableLine as shown } from '../shared/plainText';
-import { verdictCountWords, verdictWords } from '../shared/wording';
+import { functionWords, verdictCountWords, verdictOf } from '../shared/wording';
 
 const severityWord: Record<Severity, string> = { error: 'error', warning: 'warn', info: 'note' };
 
-const columns = ['line', 'objective → gradient', 'verdict', 'max rel err', 'L̂ (local)', 'step 1/L̂', 'learning rate'];
+const columns = ['line', 'function → derivative', 'verdict', 'max rel err', 'L̂ (local)', 'step 1/L̂', 'learning rate'];
 
 export function formatText(outcomes: FileOutcome[]): string {
   const out: string[] = [];
@@ -23,14 +23,14 @@ export function formatText(outcomes: FileOutcome[]): string {
     for (const f of check.fileFindings) out.push(`  ${findingText(f, f.span.line)}`);
     for (const pair of check.skipped) out.push(`  skipped  line ${pair.objective.nameSpan.line}  ${shown(pair.objective.name)} (// slopecheck-skip)`);
     if (check.pairs.length === 0) {
-      if (check.skipped.length === 0) out.push('  no objective/gradient pairs found');
+      if (check.skipped.length === 0) out.push('  no function/derivative pairs found');
       out.push('');
       continue;
     }
     const rows = check.pairs.map(({ pair, report }) => [
       String(pair.objective.nameSpan.line),
-      pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (value and gradient)`,
-      String(verdictWords[report.status]),
+      pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (${functionWords(pair.kind).value} and ${functionWords(pair.kind).derivative})`,
+      verdictOf(report),
       sci(report.maxRelError),
       sci(report.smoothness?.lipschitz ?? null),
       sci(report.smoothness?.safeStep ?? null),

@@ -9,6 +9,9 @@ export const tagNames = {
   dimension: 'dimension',
   learningRateFor: 'learningRateFor',
   data: 'data',
+  jacobianOf: 'jacobianOf',
+  hessianOf: 'hessianOf',
+  hessianVectorProductOf: 'hessianVectorProductOf',
 } as const;
 
 const capitalise = (name: string) => name.charAt(0).toUpperCase() + name.slice(1);
@@ -76,6 +79,53 @@ export function isCombinedName(name: string): boolean {
 /** Keys of a combined function's result: one names the value, the other the gradient. */
 export const combinedValueKeys: readonly string[] = ['value', 'loss', 'f', 'cost', 'fx', 'energy', 'objective'];
 export const combinedGradientKeys: readonly string[] = ['gradient', 'grad', 'g', 'dw', 'dx', 'df', 'dfdx'];
+
+/**
+ * The kinds whose derivative is a matrix, one naming rule each. `stem` reads a derivative's name:
+ * '' for a generic name (`jacobian`, `J`, `hessian`, `hvp`), the stem it names (`fit` for
+ * `fitJacobian`, `loss` for `lossHessian` or `hessianLoss`), or null when the name is not this
+ * kind's. A Jacobian's value function is named by the stem (`fit`, `fitResiduals`, `fitResid`),
+ * or is the only residual-like function next to a generic one; a Hessian's or a product's is the
+ * gradient of the pair whose objective (or gradient) the stem names, or of the only pair.
+ */
+export interface MatrixKindNaming {
+  kind: 'jacobian' | 'hessian' | 'hessianVectorProduct';
+  tag: string;
+  stem(name: string): string | null;
+}
+
+const stemRule = (generic: RegExp, suffixes: string, prefixes: string) => (name: string): string | null => {
+  if (generic.test(name)) return '';
+  const suffix = new RegExp(`^(.+?)_?(?:${suffixes})$`).exec(name);
+  if (suffix) return suffix[1];
+  const prefix = new RegExp(`^(?:${prefixes})(?:Of)?([A-Z]\\w*)$`).exec(name);
+  return prefix ? uncapitalise(prefix[1]) : null;
+};
+
+export const matrixKindNaming: readonly MatrixKindNaming[] = [
+  { kind: 'jacobian', tag: tagNames.jacobianOf, stem: stemRule(/^(jacobian|jac|J|jacobianFn|jacobianMatrix)$/, 'Jacobian|Jac|jacobian|jac', 'jacobian|jac') },
+  { kind: 'hessianVectorProduct', tag: tagNames.hessianVectorProductOf, stem: stemRule(/^(hvp|Hv|hessVec|hessvec|hessianVector|hessianVectorProduct|hessianTimes|hessianTimesVector)$/, 'Hvp|HessVec|HessianVectorProduct|HessianVector|HessianTimes|hvp', 'hvp|hessVec|hessianVectorProduct|hessianTimes') },
+  { kind: 'hessian', tag: tagNames.hessianOf, stem: stemRule(/^(hessian|hess|H|hessianFn|hessianMatrix)$/, 'Hessian|Hess|hessian|hess', 'hessian|hess') },
+];
+
+/** Names a Jacobian's stem gives its residual function: `fit` → fit, fitResiduals, fitResidual, fitResid, fitRes. */
+export function residualNamesFor(stem: string): string[] {
+  return [stem, ...['Residuals', 'Residual', 'Resid', 'Res', '_residuals', '_residual', '_resid'].map((suffix) => stem + (suffix.startsWith('_') ? suffix : capitalise(suffix)))];
+}
+
+/** `residuals`, `r`, `resid`, `poseResiduals`: a name a residual function is given. */
+export function isResidualName(name: string): boolean {
+  return /^(r|res|resid|residual|residuals|residualFn|residualVector|computeResiduals)$/.test(name) || /^[a-z]\w*(Residuals?|Resid)$/.test(name) || /^[a-z]\w*_resid(uals?)?$/.test(name);
+}
+
+/** `residualsAndJacobian`, `fitWithJacobian`: one function returning residuals and Jacobian. */
+export function isCombinedJacobianName(name: string): boolean {
+  return /^.+(AndJacobian|WithJacobian|AndJac)$/.test(name);
+}
+
+/** Keys of such a function's result: one names the residuals, the other the Jacobian. */
+export const combinedResidualKeys: readonly string[] = ['r', 'residuals', 'residual', 'resid', 'res', 'f', 'fx'];
+export const combinedJacobianKeys: readonly string[] = ['J', 'jacobian', 'jac'];
 
 /** Names of a module-level const that holds a starting point. */
 export function isStartName(name: string): boolean {

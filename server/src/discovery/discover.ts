@@ -3,7 +3,7 @@
 // and the learning rate to judge. Parses the text as given (an unsaved buffer works) and
 // never reads the disk or runs user code.
 import * as ts from 'typescript';
-import type { CallRecipe, Finding } from '../engine/types';
+import type { CallRecipe, Finding, TargetKind } from '../engine/types';
 import { collectCallables, type Callable } from './callables';
 import { collectBindings, type ModuleBindings } from './exports';
 import type { SourceText } from './importers';
@@ -26,7 +26,8 @@ export function discoverPairs(text: string, fileName: string, importers: () => r
   const bindings = collectBindings(sourceFile);
   const types = collectTypeDeclarations(sourceFile);
   const paired = matchPairs(sourceFile, collectCallables(bindings), types);
-  const learningRates = assignLearningRates(sourceFile, bindings, paired.matches);
+  // A rate belongs to descent on an objective: a gradient's, or ½‖r‖² of a Jacobian's residuals.
+  const learningRates = assignLearningRates(sourceFile, bindings, paired.matches.filter((m) => m.kind === 'gradient' || m.kind === 'jacobian'));
   let known: readonly SourceText[] | null = null;
   const importersOnce = () => (known ??= importers());
   const pairs = paired.matches.map((match) => describePair(sourceFile, bindings, types, match, learningRates.rates.get(match) ?? null, importersOnce));
@@ -65,7 +66,8 @@ function describePair(
     ...(invocation.extraArguments.length > 0 ? { extraParameters: invocation.extraParameters.slice(0, invocation.extraArguments.length) } : {}),
   };
   return {
-    kind: 'gradient',
+    kind: match.kind,
+    key: anchorOf(match).label,
     objective: { ...namedSpan(sourceFile, objective), probeTags: probes.tagSpans },
     gradient: gradient
       ? { ...namedSpan(sourceFile, gradient), returnExpressions: gradient.fn ? returnedExpressions(gradient.fn).map((e) => spanOfNode(sourceFile, e)) : [] }
@@ -74,9 +76,9 @@ function describePair(
     matchedBy: match.matchedBy,
     recipeSpans,
     entry: invocation.entry,
-    skipped: hasSkipDirective(sourceFile, objective.declaration as ts.Statement),
+    skipped: hasSkipDirective(sourceFile, anchorOf(match).declaration as ts.Statement),
     plan: {
-      kind: 'gradient',
+      kind: match.kind,
       label: objective.label,
       recipe,
       argumentKind: isFloat64ArrayType(parameterType, types) ? 'float64array' : 'array',
@@ -88,6 +90,15 @@ function describePair(
     },
     findings,
   };
+}
+
+/**
+ * The function a target is known by (a match's Callable, a discovered target's span): the
+ * objective of a gradient pair, the derivative of the other kinds (one gradient may carry both a
+ * Hessian and a product). Its name is the target's key, and a skip comment goes above it.
+ */
+export function anchorOf<Function>(target: { kind: TargetKind; objective: Function; gradient: Function | null }): Function {
+  return target.kind === 'gradient' || !target.gradient ? target.objective : target.gradient;
 }
 
 function namedSpan(sourceFile: ts.SourceFile, callable: Callable): NamedSpan {

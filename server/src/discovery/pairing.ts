@@ -1,12 +1,15 @@
-// Which functions form objective/derivative pairs, within each group of callables (the
-// module's functions, or one host object's methods): `@gradientOf` tags first, then names
+// Which functions form check targets, within each group of callables (the module's functions,
+// or one host object's methods): residuals and Jacobians first (matrixPairing.ts), then
+// objective/gradient pairs: `@gradientOf` tags first, then names
 // (`lossGrad`, `dLoss`, `costPrime`, then shared stems such as `softmaxLoss`/`softmaxGrad`,
 // then a generic `gradient` next to the only objective-like function), each confirmed by the
-// signatures; then functions that return value and gradient together.
+// signatures; then functions that return value and gradient together; then Hessians and
+// Hessian-vector products next to the gradients found.
 import type * as ts from 'typescript';
-import type { Finding } from '../engine/types';
+import type { Finding, TargetKind } from '../engine/types';
 import type { Callable, CallableGroup } from './callables';
 import { combinedGradientKeys, combinedValueKeys, isCombinedName, isDerivativeLikeName, isGenericDerivativeName, isObjectiveLikeName, objectiveNamesFor, tagNames, type NameRank } from './conventions';
+import { matchJacobians, matchSecondOrder, type GroupPairing } from './matrixPairing';
 import { firstParameterText, returnShape, takesPoint, type ReturnShape } from './signatures';
 import { spanOfNode } from './spans';
 import { firstWord, hasTag, readTags } from './tags';
@@ -14,9 +17,11 @@ import type { TypeDeclarations } from './typeShapes';
 import type { DiscoveryResult, MatchedBy } from './types';
 
 export interface PairMatch {
+  kind: TargetKind;
   group: CallableGroup;
+  /** The value function: the objective, the residual function, or the gradient a Hessian belongs to. */
   objective: Callable;
-  /** Null when one function returns both (`split`). */
+  /** The derivative; null when one function returns both (`split`). */
   gradient: Callable | null;
   split: { value: string; derivative: string } | null;
   matchedBy: MatchedBy;
@@ -54,6 +59,10 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
   const byName = (name: string) => group.callables.find((c) => c.names.includes(name));
   const note = (code: Finding['code'], node: ts.Node, message: string, severity: Finding['severity'] = 'info') =>
     fileFindings.push({ code, severity, subject: 'gradient', message, span: spanOfNode(sourceFile, node) });
+  const kinds: GroupPairing = { sourceFile, group, used, matches, fileFindings, shapeOf, pointTaking, note };
+
+  // 0. Residuals and their Jacobian, before a residual-like name can be taken for an objective.
+  matchJacobians(kinds);
 
   // 1. Tags: `@gradientOf X` on the derivative names its objective, whatever the names.
   for (const derivative of group.callables) {
@@ -72,7 +81,7 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
     }
     if (used.has(objective) && matches.some((m) => m.objective === objective)) continue;
     used.add(objective);
-    matches.push({ group, objective, gradient: derivative, split: null, matchedBy: 'gradientOf-tag', findings: [] });
+    matches.push({ kind: 'gradient', group, objective, gradient: derivative, split: null, matchedBy: 'tag', findings: [] });
   }
 
   // 2. Names, confirmed by signature: the derivative returns a vector (or we cannot tell), the objective a number.
@@ -119,7 +128,7 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
       const { derivative, rank } = winners[0];
       used.add(objective);
       used.add(derivative);
-      matches.push({ group, objective, gradient: derivative, split: null, matchedBy: rank === 1 ? 'name' : rank === 2 ? 'shared-stem' : 'only-candidate', findings: [] });
+      matches.push({ kind: 'gradient', group, objective, gradient: derivative, split: null, matchedBy: rank === 1 ? 'name' : rank === 2 ? 'shared-stem' : 'only-candidate', findings: [] });
     }
   };
   pairByNames((derivative) =>
@@ -140,8 +149,11 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
     const split = combinedSplit(callable, shapeOf(callable));
     if (!split) continue;
     used.add(callable);
-    matches.push({ group, objective: callable, gradient: null, split, matchedBy: 'combined', findings: [] });
+    matches.push({ kind: 'gradient', group, objective: callable, gradient: null, split, matchedBy: 'combined', findings: [] });
   }
+
+  // Hessians and Hessian-vector products, next to the gradients just found.
+  matchSecondOrder(kinds);
 
   // 4. Nothing skipped silently: a function left unpaired that looks like a gradient — by its name, or
   //    by returning a vector from the same declared parameter as an objective left unpaired — says why.

@@ -3,8 +3,8 @@
 import type { CheckPlan, Finding, TargetKind } from '../engine/types';
 import type { ImporterEntry } from './importerCalls';
 
-/** How a pair was found, for explanations in hovers and docs. */
-export type MatchedBy = 'name' | 'shared-stem' | 'only-candidate' | 'gradientOf-tag' | 'combined';
+/** How a target was found, for explanations in hovers and docs: 'tag' is a kind's tag (@gradientOf, @jacobianOf, …). */
+export type MatchedBy = 'name' | 'shared-stem' | 'only-candidate' | 'tag' | 'combined';
 
 /** A range in the document: offsets for edits, 0-based line/character for LSP, 1-based line for the CLI. */
 export interface SourceSpan {
@@ -29,6 +29,12 @@ export interface NamedSpan {
 /** One check target: a value function and its derivative, and how to call them. */
 export interface DiscoveredPair {
   kind: TargetKind;
+  /**
+   * Names the target within its document, for the editor's requests and caches: the objective's
+   * name for a gradient pair, the derivative's (the Jacobian's, the Hessian's) for the other
+   * kinds, whose value function may serve several targets.
+   */
+  key: string;
   objective: NamedSpan & {
     /** Each `@probe` tag's span, for related information and edits. */
     probeTags: SourceSpan[];

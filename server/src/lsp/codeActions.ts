@@ -3,7 +3,8 @@
 import { CodeActionKind, type CodeAction, type Diagnostic, type Position, type TextEdit } from 'vscode-languageserver';
 import type { PairOutcome } from '../check/checkDocument';
 import { skipDirective } from '../discovery/conventions';
-import type { DiscoveredPair } from '../discovery/types';
+import { anchorOf } from '../discovery/discover';
+import type { DiscoveredPair, NamedSpan } from '../discovery/types';
 import type { FindingCode } from '../engine/types';
 import { diagnosticSource, type DiagnosticData } from './diagnostics';
 import { gradientPatch, isFixable } from './gradientPatch';
@@ -34,7 +35,7 @@ export async function codeActions(input: CodeActionInput): Promise<CodeAction[]>
     if (diagnostic.source !== diagnosticSource) continue;
     const pair = pairOf(input.pairs, diagnostic, input);
     if (!pair) continue;
-    const outcome = input.outcome(pair.objective.name);
+    const outcome = input.outcome(pair.key);
     const code = String(diagnostic.code);
     if (rateCodes.has(code)) {
       const action = safeRateAction(input, pair, outcome, diagnostic);
@@ -48,9 +49,10 @@ export async function codeActions(input: CodeActionInput): Promise<CodeAction[]>
     }
     if (!skipOffered.has(pair)) {
       skipOffered.add(pair);
-      const { lineStart, indent } = indentationAt(input.text, pair.objective.declarationSpan.start);
+      const anchor = anchorOf<NamedSpan>(pair);
+      const { lineStart, indent } = indentationAt(input.text, anchor.declarationSpan.start);
       const edit = { start: lineStart, end: lineStart, newText: `${indent}// ${skipDirective}\n` };
-      actions.push(quickFix(`Skip checking ${pair.objective.name} (// ${skipDirective})`, input, [edit], diagnostic, false));
+      actions.push(quickFix(`Skip checking ${anchor.name} (// ${skipDirective})`, input, [edit], diagnostic, false));
     }
   }
   return actions;
@@ -74,7 +76,7 @@ async function gradientFixAction(input: CodeActionInput, pair: DiscoveredPair, o
   if (!pair.gradient || !isFixable(diagnosis)) return null;
   const replacements = gradientPatch(parseSource(input.text, input.fileName), pair.gradient.returnExpressions, diagnosis);
   if (!replacements) return null;
-  if (!(await input.verify(applyReplacements(input.text, replacements), pair.objective.name))) return null;
+  if (!(await input.verify(applyReplacements(input.text, replacements), pair.key))) return null;
   return quickFix(`Fix ${pair.gradient.name}: ${describeDiagnosis(diagnosis)} (checked in the sandbox)`, input, replacements, diagnostic, true);
 }
 
@@ -86,7 +88,7 @@ function quickFix(title: string, input: CodeActionInput, replacements: Replaceme
 /** By the objective the diagnostic carries, else by the name it sits on. */
 function pairOf(pairs: DiscoveredPair[], diagnostic: Diagnostic, input: CodeActionInput): DiscoveredPair | null {
   const objective = (diagnostic.data as Partial<DiagnosticData> | undefined)?.objective;
-  if (objective) return pairs.find((p) => p.objective.name === objective) ?? null;
+  if (objective) return pairs.find((p) => p.key === objective) ?? null;
   const { line, character } = diagnostic.range.start;
   return (
     pairs.find((p) =>

@@ -3,7 +3,7 @@ import type { CodeLens } from 'vscode-languageserver';
 import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair } from '../discovery/types';
 import { toRange } from './diagnostics';
-import { describeDiagnosis, floorToSignificant, shortNumber, verdictWords } from '../shared/wording';
+import { errorShapeOf, floorToSignificant, shortNumber, verdictOf, verdictWords } from '../shared/wording';
 
 export const commands = {
   openReport: 'slopecheck.openReport',
@@ -17,10 +17,10 @@ export function lensTitle(outcome: PairOutcome | null, checking: boolean): strin
   switch (report.status) {
     case 'pass': {
       const step = report.smoothness ? floorToSignificant(report.smoothness.safeStep, 2) : null;
-      return step === null ? verdictWords.pass : `${verdictWords.pass} · step ≤ ${shortNumber(step, 2)} (local estimate)`;
+      return step === null ? verdictOf(report) : `${verdictOf(report)} · step ≤ ${shortNumber(step, 2)} (local estimate)`;
     }
     case 'fail':
-      return `${verdictWords.fail}: ${describeDiagnosis(report.diagnosis)}`;
+      return `${verdictOf(report)}: ${errorShapeOf(report) ?? 'wrong'}`;
     default: {
       const reason = report.findings.find((f) => f.severity !== 'info') ?? report.findings[0];
       return reason ? `${verdictWords[report.status]}: ${reason.code}` : verdictWords[report.status];
@@ -34,7 +34,7 @@ export function pairLenses(uri: string, pair: DiscoveredPair, outcome: PairOutco
   if (!trusted) return [{ range, command: { title: 'not checked: the workspace is not trusted', command: '' } }];
   const title = pair.skipped ? 'not checked (slopecheck-skip)' : lensTitle(outcome, checking);
   return [
-    { range, command: { title, command: commands.openReport, arguments: [uri, pair.objective.name] } },
+    { range, command: { title, command: commands.openReport, arguments: [uri, pair.key] } },
     { range, command: { title: 'check again', command: commands.checkAgain, arguments: [uri] } },
   ];
 }

@@ -5,7 +5,8 @@ import { findingSpan, sameFile, type DocumentCheck, type PairOutcome } from '../
 import { findingHelpUrl } from '../check/codes';
 import type { SourceSpan } from '../discovery/types';
 import type { Finding, Severity } from '../engine/types';
-import { mismatchMessage } from '../engine/wording';
+import { kindWording } from '../engine/kindWording';
+import { matrixMismatchMessage, mismatchMessage } from '../engine/wording';
 
 export const diagnosticSource = 'slopecheck';
 
@@ -44,9 +45,9 @@ function pairDiagnostics(fileName: string, outcome: PairOutcome, context: Diagno
   }
   return [...groups.values()].map(({ range, findings }) => {
     const lead = worstFinding(outcome, findings);
-    const message = lead.code === 'gradient-mismatch' ? mismatchDiagnostic(outcome, lead, findings) : withRepeats(lead.message, findings, outcome);
+    const message = lead.code === kindWording[outcome.pair.kind].mismatchCode ? mismatchDiagnostic(outcome, lead, findings) : withRepeats(lead.message, findings, outcome);
     const result = diagnostic(lead, message, range);
-    result.data = { objective: outcome.pair.objective.name } satisfies DiagnosticData;
+    result.data = { objective: outcome.pair.key } satisfies DiagnosticData;
     if (context.relatedInformation) {
       const related = relatedInformation(outcome, lead, context.uri);
       if (related.length > 0) result.relatedInformation = related;
@@ -94,8 +95,10 @@ function mismatchDiagnostic(outcome: PairOutcome, worst: Finding, findings: Find
   const { pair, report } = outcome;
   const probe = worst.probeIndex === undefined ? undefined : report.probes[worst.probeIndex];
   if (!probe) return withRepeats(worst.message, findings, outcome);
-  const names = { gradient: pair.gradient?.name ?? `the gradient of ${pair.objective.name}`, objective: pair.objective.name };
-  return `${mismatchMessage(probe, worst.probeIndex!, report.diagnosis, names)}${seenAt(findings, outcome)}`;
+  const wording = kindWording[pair.kind];
+  const names = { gradient: pair.gradient?.name ?? `the ${wording.derivative} of ${pair.objective.name}`, objective: pair.objective.name };
+  const message = report.matrix ? matrixMismatchMessage(probe, worst.probeIndex!, report.matrix.diagnosis, wording, names) : mismatchMessage(probe, worst.probeIndex!, report.diagnosis, names);
+  return `${message}${seenAt(findings, outcome)}`;
 }
 
 function withRepeats(message: string, findings: Finding[], outcome: PairOutcome): string {
@@ -115,8 +118,9 @@ function relatedInformation(outcome: PairOutcome, finding: Finding, uri: string)
   const { pair } = outcome;
   const related: DiagnosticRelatedInformation[] = [];
   const at = (span: SourceSpan, message: string) => related.push({ location: { uri, range: toRange(span) }, message });
-  if (finding.subject === 'gradient' || finding.subject === 'learningRate') at(pair.objective.nameSpan, `objective ${pair.objective.name}`);
-  if (finding.subject !== 'gradient' && pair.gradient) at(pair.gradient.nameSpan, `gradient ${pair.gradient.name}`);
+  const wording = kindWording[pair.kind];
+  if (finding.subject === 'gradient' || finding.subject === 'learningRate') at(pair.objective.nameSpan, `${wording.value} ${pair.objective.name}`);
+  if (finding.subject !== 'gradient' && pair.gradient) at(pair.gradient.nameSpan, `${wording.derivative} ${pair.gradient.name}`);
   const tags = pair.objective.probeTags;
   if (finding.probeIndex !== undefined && tags.length > 0) {
     // Tags and probes line up one to one only when every probe came from its own tag.

@@ -117,7 +117,7 @@ export class DocumentChecks {
   }
 
   outcome(uri: string, objective: string): PairOutcome | null {
-    return this.documents.get(uri)?.check?.pairs.find((p) => p.pair.objective.name === objective) ?? null;
+    return this.documents.get(uri)?.check?.pairs.find((p) => p.pair.key === objective) ?? null;
   }
 
   /**
@@ -148,8 +148,8 @@ export class DocumentChecks {
   private async checkDetailed(state: DocumentState, objective: string, options: CheckOptions): Promise<PairOutcome | null> {
     const { signal } = state.detailedRuns;
     try {
-      const check = await checkDocument(state.text, state.fileName, this.host.runner, options, signal, { onlyObjective: objective, ...this.host.workspace?.(state.fileName) });
-      return signal.aborted ? null : (check.pairs.find((p) => p.pair.objective.name === objective) ?? null);
+      const check = await checkDocument(state.text, state.fileName, this.host.runner, options, signal, { onlyTarget: objective, ...this.host.workspace?.(state.fileName) });
+      return signal.aborted ? null : (check.pairs.find((p) => p.pair.key === objective) ?? null);
     } catch (error) {
       if (signal.aborted) return null;
       this.host.log(`the detailed check of ${objective} failed: ${error instanceof Error ? error.message : String(error)}`);

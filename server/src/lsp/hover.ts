@@ -4,7 +4,7 @@ import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import type { RateStatus } from '../engine/types';
 import { documentNamespace } from '../discovery/importerCalls';
-import { baseName, describeCall, describeDiagnosis, noDivergenceStep, shortNumber, verdictWords, withoutNamespace } from '../shared/wording';
+import { baseName, describeCall, errorShapeOf, functionWords, noDivergenceStep, shortNumber, verdictOf, withoutNamespace } from '../shared/wording';
 
 export type NameRole = 'objective' | 'gradient' | 'learningRate';
 
@@ -30,15 +30,21 @@ const shownCoordinates = 3;
 
 /** Markdown card for a pair; `outcome` is null while no check has finished. */
 export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null, checking: boolean): string {
-  const title = pair.gradient ? `\`${pair.objective.name}\` → \`${pair.gradient.name}\`` : `\`${pair.objective.name}\` (value and gradient)`;
+  const words = functionWords(pair.kind);
+  const title = pair.gradient ? `\`${pair.objective.name}\` → \`${pair.gradient.name}\`` : `\`${pair.objective.name}\` (${words.value} and ${words.derivative})`;
   if (pair.skipped) return `**${title}** · not checked: \`// slopecheck-skip\` is above it`;
   if (!outcome) return `**${title}** · ${checking ? 'checking…' : 'not checked yet'}`;
   const { report } = outcome;
-  const verdict = report.status === 'fail' ? `${verdictWords.fail}: ${describeDiagnosis(report.diagnosis)}` : verdictWords[report.status];
+  const verdict = report.status === 'fail' ? `${verdictOf(report)}: ${errorShapeOf(report) ?? 'wrong'}` : verdictOf(report);
   const s = report.smoothness;
   const rows: Array<[string, string]> = [];
   if (report.maxRelError !== null) rows.push(['max relative error', shortNumber(report.maxRelError)]);
-  if (s) {
+  const leastSquares = report.matrix?.leastSquares;
+  if (leastSquares) {
+    rows.push(['σmax(J)², L of the Gauss–Newton model of ½‖r‖²', shortNumber(leastSquares.sigmaMaxSquared)]);
+    rows.push(['cond(JᵀJ)', leastSquares.conditionNumber === null ? 'singular to rounding' : shortNumber(leastSquares.conditionNumber)]);
+    rows.push(['gradient descent on ½‖r‖²', `safe at steps ≤ 1/σmax² = ${shortNumber(1 / leastSquares.sigmaMaxSquared)}; diverges on the model from 2/σmax² = ${shortNumber(2 / leastSquares.sigmaMaxSquared)}`]);
+  } else if (s) {
     rows.push(['L̂ (local Lipschitz estimate)', shortNumber(s.lipschitz)]);
     rows.push(['safe step 1/L̂', shortNumber(s.safeStep)]);
     rows.push(['divergence at 2/λ⁺', s.divergenceStep === null ? noDivergenceStep : shortNumber(s.divergenceStep)]);
@@ -57,7 +63,7 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
     rows.push(['probe 1', `your start \`${withoutNamespace(pair.plan.start, documentNamespace)}\`; ${others}`]);
   }
   if (report.probes.length > 0) rows.push(['probes', describeProbes(report.probes.map((p) => p.point), report.dimension)]);
-  rows.push(['work', `${report.evaluations.objective} objective and ${report.evaluations.gradient} gradient evaluations in ${Math.round(report.elapsedMs)} ms`]);
+  rows.push(['work', `${report.evaluations.objective} ${words.value} and ${report.evaluations.gradient} ${words.derivative} evaluations in ${Math.round(report.elapsedMs)} ms`]);
 
   const lines = [`**${title}** · ${verdict}`, '', '| | |', '|:--|:--|', ...rows.map(([k, v]) => `| ${k} | ${v} |`)];
   const notes = report.findings.filter((f) => f.severity !== 'info' || report.status !== 'pass').map((f) => `\`${f.code}\``);

@@ -25,7 +25,7 @@ export class PatchVerifier {
     const known = this.verdicts.get(key);
     if (known) return known;
     const verdict = checkDocument(patchedText, fileName, this.runner(), options, signal, {
-      onlyObjective: objective,
+      onlyTarget: objective,
       ...this.workspace(fileName),
     }).then(
       (check) => !signal?.aborted && check.pairs.length === 1 && check.pairs[0].report.status === 'pass',

@@ -130,10 +130,10 @@ export function startServer(connection: Connection): void {
     if (!document) return null;
     const hit = nameAt(pairsOf(document), document.offsetAt(position));
     if (!hit) return null;
-    let outcome = checks.outcome(document.uri, hit.pair.objective.name);
+    let outcome = checks.outcome(document.uri, hit.pair.key);
     // A passing pair without a learning rate was checked without its curvature: the hover asks for it.
     if (outcome && outcome.report.status === 'pass' && !outcome.report.smoothness && !hit.pair.learningRate) {
-      outcome = (await checks.detailedOutcome(document.uri, hit.pair.objective.name, { smoothness: true })) ?? outcome;
+      outcome = (await checks.detailedOutcome(document.uri, hit.pair.key, { smoothness: true })) ?? outcome;
     }
     const span = hit.role === 'objective' ? hit.pair.objective.nameSpan : hit.role === 'gradient' ? hit.pair.gradient!.nameSpan : hit.pair.learningRate!.nameSpan;
     return { contents: { kind: 'markdown', value: hoverMarkdown(hit.pair, outcome, checks.isChecking(document.uri)) }, range: toRange(span) };
@@ -143,7 +143,7 @@ export function startServer(connection: Connection): void {
     const document = documents.get(textDocument.uri);
     if (!document) return [];
     const checking = checks.isChecking(document.uri);
-    return pairsOf(document).flatMap((pair) => pairLenses(document.uri, pair, checks.outcome(document.uri, pair.objective.name), checking, trusted));
+    return pairsOf(document).flatMap((pair) => pairLenses(document.uri, pair, checks.outcome(document.uri, pair.key), checking, trusted));
   });
 
   connection.onCodeAction(async ({ textDocument, context }, token) => {
@@ -168,10 +168,10 @@ export function startServer(connection: Connection): void {
     const document = documents.get(uri);
     if (!document) return [];
     return pairsOf(document).map((pair) => ({
-      objective: pair.objective.name,
+      objective: pair.key,
       gradient: pair.gradient?.name ?? null,
       line: pair.objective.nameSpan.startLine,
-      status: checks.outcome(uri, pair.objective.name)?.report.status ?? 'pending',
+      status: checks.outcome(uri, pair.key)?.report.status ?? 'pending',
     }));
   });
 

@@ -1,8 +1,8 @@
 // Runs INSIDE the sandbox's bare vm context, bundled with the engine as an IIFE
 // (global `__slopecheckRunner`). No Node APIs here. Everything crossing to the
 // host is a JSON string, so no object of this realm ever reaches the host.
-import { checkPair } from '../engine/checkPair';
 import type { PairFunctions } from '../engine/checkPair';
+import { checkByKind, type TargetCheck } from '../engine/kinds';
 import type { CheckPlan, DeclaredParameter, Finding, FindingSubject, PairReport } from '../engine/types';
 import { installConsole, takeConsole } from './consoleShim';
 import { plainJson } from './plainJson';
@@ -56,11 +56,14 @@ export function loadModule(factory: (exports: unknown, module: LoadedModule, req
  */
 export function runLoaded(planJson: string, endsAt: number | null): string {
   if (!loadedScope) return stringify(errorReport([internalFinding('the module was not loaded')]));
-  return run(loadedScope, planJson, checkPair, endsAt);
+  return run(loadedScope, planJson, null, endsAt);
 }
 
-/** Resolves the plan's call recipe in `scope` and checks the target; returns the JSON of a PairReport. */
-export function run(scope: ModuleScope, planJson: string, check: typeof checkPair = checkPair, endsAt: number | null = null): string {
+/**
+ * Resolves the plan's call recipe in `scope` and checks the target with the check of its kind
+ * (or `check`, in tests); returns the JSON of a PairReport.
+ */
+export function run(scope: ModuleScope, planJson: string, check: TargetCheck | null = null, endsAt: number | null = null): string {
   const started = now();
   let report: PairReport;
   try {
@@ -78,8 +81,10 @@ export function run(scope: ModuleScope, planJson: string, check: typeof checkPai
 /** A value of the user's module, or the finding that says why it could not be had. */
 type Read = { value: unknown } | { finding: Finding };
 
-function runPlan(scope: ModuleScope, plan: CheckPlan, check: typeof checkPair, endsAt: number | null): PairReport {
+function runPlan(scope: ModuleScope, plan: CheckPlan, given: TargetCheck | null, endsAt: number | null): PairReport {
   const started = now();
+  const check = given ?? (hasOwn(checkByKind, plan.kind) ? checkByKind[plan.kind] : null);
+  if (!check) return errorReport([internalFinding(`the plan's kind '${String(plan.kind)}' has no check`)], now() - started);
   const read = (key: string): Read => readScope(scope, key);
   const functions = resolveFunctions(read, plan);
   if (isFailure(functions)) return errorReport(functions.findings, now() - started);
@@ -134,12 +139,13 @@ function resolveFunctions(read: (key: string) => Read, plan: CheckPlan): Resolve
     if ('finding' in made) return { findings: [made.finding] };
     host = made.value;
   }
-  const functionOf = (name: string, subject: FindingSubject): ((x: unknown) => unknown) | Finding => {
+  const functionOf = (name: string, subject: FindingSubject): ((x: unknown, ...direction: unknown[]) => unknown) | Finding => {
     const found = host === null ? read(name) : readMember(host, name, recipe.host!.key);
     if ('finding' in found) return { ...found.finding, subject };
     if (typeof found.value === 'function') {
       const fn = found.value as (...args: unknown[]) => unknown;
-      return (x) => fn.call(host, x, ...extra);
+      // A product (x, v) ↦ H(x)v takes its direction after the point, before the data.
+      return (x, ...direction) => fn.call(host, x, ...direction, ...extra);
     }
     const where = host === null ? `'${name}'` : `'${recipe.host!.key}.${name}'`;
     return { code: 'unresolved-target', severity: 'error', subject, message: `${where} is ${describeShape(found.value)}, not a function.` };

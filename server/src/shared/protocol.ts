@@ -32,11 +32,12 @@ export interface DocumentParams {
 
 export interface PairReportParams {
   uri: string;
-  /** The objective's name, as listed by `listPairs`. */
+  /** The target's key, as listed by `listPairs`. */
   objective: string;
 }
 
 export interface PairListing {
+  /** The target's key: its objective's name for a gradient pair, its derivative's (a Jacobian's, a Hessian's) for the other kinds. */
   objective: string;
   gradient: string | null;
   /** 0-based line of the objective's name. */

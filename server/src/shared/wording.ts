@@ -1,10 +1,12 @@
 // The words and figures a user reads about a pair, one set for every place they appear
 // (diagnostics, hover, code lens, quick pick, status bar, report, CLI).
-import type { CheckPlan, PairStatus } from '../engine/types';
+import { kindWording } from '../engine/kindWording';
+import type { CheckPlan, DirectionalCheck, PairReport, PairStatus, ProbeReport, TargetKind, UndecidedReason } from '../engine/types';
+import { describeDiagnosis, describeMatrixDiagnosis } from '../engine/wording';
 
 // Figures and the shape of an error are worded where the engine words its findings.
 export { shortNumber } from '../engine/format';
-export { describeDiagnosis } from '../engine/wording';
+export { describeDiagnosis, kindWording };
 
 /** Rounds a positive x down to `digits` significant figures: a step taken from it stays at or below x. */
 export function floorToSignificant(x: number, digits = 2): number {
@@ -21,14 +23,16 @@ export function floorToSignificant(x: number, digits = 2): number {
  * `new Bowl().loss(x)`, `lossAndGrad(x)[0]`. `namespace` is how an importing entry names the
  * document, left out of what the user reads.
  */
-export function describeCall(plan: Pick<CheckPlan, 'recipe'>, namespace?: string): string {
+export function describeCall(plan: Pick<CheckPlan, 'recipe' | 'kind'>, namespace?: string): string {
   const { recipe } = plan;
   const plain = (key: string) => withoutNamespace(key, namespace);
   const host = recipe.host ? (recipe.host.construct ? `new ${plain(recipe.host.key)}()` : plain(recipe.host.key)) : null;
-  const args = ['x', ...recipe.extraArguments.map((a) => a ?? '(default)')].join(', ');
-  const call = (fn: string) => `${host ? `${host}.` : ''}${plain(fn)}(${args})`;
-  if (recipe.split) return `${call(recipe.value)}: value [${JSON.stringify(recipe.split.value)}], gradient [${JSON.stringify(recipe.split.derivative)}]`;
-  return recipe.derivative === null ? call(recipe.value) : `${call(recipe.value)} and ${call(recipe.derivative)}`;
+  const data = recipe.extraArguments.map((a) => a ?? '(default)');
+  const call = (fn: string, direction: string[] = []) => `${host ? `${host}.` : ''}${plain(fn)}(${['x', ...direction, ...data].join(', ')})`;
+  const words = kindWording[plan.kind ?? 'gradient'];
+  if (recipe.split) return `${call(recipe.value)}: ${words.value} [${JSON.stringify(recipe.split.value)}], ${words.derivative} [${JSON.stringify(recipe.split.derivative)}]`;
+  // A Hessian-vector product takes its direction after the point.
+  return recipe.derivative === null ? call(recipe.value) : `${call(recipe.value)} and ${call(recipe.derivative, plan.kind === 'hessianVectorProduct' ? ['v'] : [])}`;
 }
 
 /** A scope key as the user writes it: without the namespace an importing entry reaches the document by. */
@@ -59,3 +63,46 @@ export const verdictCountWords: Record<PairStatus, string> = {
   inconclusive: 'undecided',
   error: 'not checked',
 };
+
+/** A target's verdict in its own words: "Jacobian matches", "Hessian wrong", "undecided". */
+export function verdictOf(report: Pick<PairReport, 'kind' | 'status'>): string {
+  const derivative = kindWording[report.kind ?? 'gradient'].derivative;
+  if (report.status === 'pass') return `${derivative} matches`;
+  if (report.status === 'fail') return `${derivative} wrong`;
+  return verdictWords[report.status];
+}
+
+/** The shape of a wrong derivative, for any kind; null when nothing is wrong. */
+export function errorShapeOf(report: Pick<PairReport, 'kind' | 'diagnosis' | 'matrix'>): string | null {
+  if (report.matrix) return report.matrix.diagnosis ? describeMatrixDiagnosis(report.matrix.diagnosis, kindWording[report.kind]) : null;
+  return report.diagnosis ? describeDiagnosis(report.diagnosis) : null;
+}
+
+/** "residual function and Jacobian", for sentences about a target's two functions. */
+export function functionWords(kind: TargetKind): { value: string; derivative: string } {
+  const { value, derivative } = kindWording[kind];
+  return { value, derivative };
+}
+
+/** One compared derivative as every table shows it, whatever the kind. */
+export interface DerivativeRow {
+  /** `3` (a component), `J[4][1]` (an entry), `direction 2`. */
+  label: string;
+  analytic: number;
+  numerical: number;
+  bound: number;
+  relError: number | null;
+  mismatch: boolean;
+  undecided?: UndecidedReason;
+}
+
+/**
+ * The rows of a probe: its entries (matrix kinds), else its components, else its random
+ * directions; `heading` names the first column.
+ */
+export function derivativeRows(kind: TargetKind, probe: ProbeReport): { heading: string; rows: DerivativeRow[] } {
+  const row = (label: string, c: DirectionalCheck, relError: number | null): DerivativeRow => ({ label, analytic: c.analytic, numerical: c.numerical, bound: c.errorBound, relError, mismatch: c.mismatch, ...(c.undecided ? { undecided: c.undecided } : {}) });
+  if (probe.entries && probe.entries.length > 0) return { heading: 'entry', rows: probe.entries.map((e) => row(kindWording[kind].entry(e.row, e.column), e, e.relError)) };
+  if (probe.components.length > 0) return { heading: 'component', rows: probe.components.map((c) => row(String(c.index), c, c.relError)) };
+  return { heading: 'direction', rows: probe.directions.map((d, i) => row(String(i + 1), d, null)) };
+}
