@@ -9,12 +9,18 @@ import { CliRun, runCli } from '../support/runCli';
 
 interface ExpectedPair {
   file: string;
+  /** Absent for a gradient pair. */
+  kind?: 'jacobian' | 'hessian' | 'hessianVectorProduct';
   objective: string;
   gradient: string | null;
   status: 'pass' | 'fail' | 'inconclusive';
-  diagnosis: null | 'sign' | 'factor' | 'permutation' | 'subset';
+  /** The gradient's diagnosis kind, or the matrix diagnosis kind for the other kinds. */
+  diagnosis: string | null;
   factor?: number;
   components?: number[];
+  /** [row, column] entries wrong at every probe (matrix kinds). */
+  entries?: Array<[number, number]>;
+  expectedFindings?: string[];
   learningRate?: { name: string; status: 'safe' | 'aggressive' | 'divergent' };
 }
 
@@ -36,21 +42,27 @@ describe('slopecheck --format json over the demo workspace', () => {
   });
 
   test('every expected pair is found, and nothing else', () => {
-    const found = files.flatMap((f) => f.pairs.map((p: any) => `${f.path}#${p.objective}`)).sort();
-    const wanted = expected.map((e) => `${path.relative(repoRoot, path.join(demoDir, e.file))}#${e.objective}`).sort();
+    const found = files.flatMap((f) => f.pairs.map((p: any) => `${f.path}#${p.kind}#${p.objective}`)).sort();
+    const wanted = expected.map((e) => `${path.relative(repoRoot, path.join(demoDir, e.file))}#${e.kind ?? 'gradient'}#${e.objective}`).sort();
     assert.deepEqual(found, wanted);
   });
 
   for (const want of expected) {
-    test(`${want.file} ${want.objective}: ${want.status}${want.diagnosis ? ` (${want.diagnosis})` : ''}`, () => {
+    test(`${want.file} ${want.kind ?? 'gradient'} ${want.objective}: ${want.status}${want.diagnosis ? ` (${want.diagnosis})` : ''}`, () => {
       const file = files.find((f) => f.path.endsWith(want.file));
       assert.ok(file, `file ${want.file} missing from output`);
-      const pair = file.pairs.find((p: any) => p.objective === want.objective);
+      const pair = file.pairs.find((p: any) => p.kind === (want.kind ?? 'gradient') && p.objective === want.objective);
       assert.ok(pair, `pair ${want.objective} missing`);
       if (want.gradient) assert.equal(pair.gradient, want.gradient);
       assert.equal(pair.status, want.status, `findings: ${JSON.stringify(pair.findings, null, 1)}`);
       assert.ok(Number.isInteger(pair.line) && pair.line >= 1);
-      if (want.diagnosis) {
+      for (const code of want.expectedFindings ?? []) assert.ok(pair.findings.some((f: any) => f.code === code), `finding ${code}`);
+      if (want.diagnosis && want.kind) {
+        assert.equal(pair.matrix?.diagnosis?.kind, want.diagnosis);
+        const mismatch = pair.findings.find((f: any) => f.code === `${want.kind === 'hessianVectorProduct' ? 'hessian-vector-product' : want.kind}-mismatch`);
+        assert.ok(mismatch, 'a mismatch finding of its kind');
+        if (want.entries) assert.deepEqual(mismatch.entries, want.entries);
+      } else if (want.diagnosis) {
         assert.equal(pair.diagnosis?.kind, want.diagnosis);
         if (want.factor !== undefined) assert.ok(Math.abs(pair.diagnosis.factor - want.factor) < 1e-6 * Math.abs(want.factor));
         const mismatch = pair.findings.find((f: any) => f.code === 'gradient-mismatch');
@@ -58,7 +70,7 @@ describe('slopecheck --format json over the demo workspace', () => {
         assert.equal(mismatch.severity, 'error');
         if (want.components) assert.deepEqual([...mismatch.components].sort((a: number, b: number) => a - b), want.components);
       }
-      if (want.status === 'pass') {
+      if (want.status === 'pass' && !want.kind) {
         assert.ok(pair.maxRelError !== null && pair.maxRelError < 1e-4, `maxRelError ${pair.maxRelError}`);
         assert.ok(pair.lipschitz > 0 && Math.abs(pair.safeStep * pair.lipschitz - 1) < 1e-9, 'safe step is 1/L̂');
       }

@@ -99,3 +99,18 @@ test('residual names are not taken for objectives: a gradient pair and a Jacobia
     ['gradient', 'loss', 'gradient'],
   ]);
 });
+
+test('a gradient pair whose objective calls the residual function carries its recipe for the Jᵀr comparison', () => {
+  const text = source(
+    'export function residuals(p: number[]) { return [p[0] - 1, p[1]]; }',
+    'export function jacobian(p: number[]) { return [[1, 0], [0, 1]]; }',
+    'export function misfit(p: number[]) { const r = residuals(p); return r[0] ** 2 + r[1] ** 2; }',
+    'export function misfitGrad(p: number[]) { return [2 * (p[0] - 1), 2 * p[1]]; }',
+    'export function prior(p: number[]) { return p[0] ** 2; }',
+    'export function priorGrad(p: number[]) { return [2 * p[0], 0]; }',
+  );
+  const pairs = discoverPairs(text, 'fit.ts').pairs;
+  const misfit = pairs.find((p) => p.key === 'misfit')!;
+  assert.deepEqual(misfit.plan.residuals, pairs.find((p) => p.kind === 'jacobian')!.plan.recipe);
+  assert.equal(pairs.find((p) => p.key === 'prior')!.plan.residuals, undefined);
+});

@@ -85,11 +85,23 @@ describe('planted Jacobian bugs are caught and named', () => {
     }
   });
 
-  test('errors confined to a block (Brown and Dennis: residuals 5–9 miss the chain rule in column 3)', () => {
+  test('a column wrong in some rows only is named by its column (Brown and Dennis: residuals 5–9, column 3)', () => {
     const report = checkJacobian(byName('Brown and Dennis'), (J) => J.map((row, i) => (i >= 5 && i <= 9 ? [row[0], row[1], row[2], row[3] * 1.1] : row)));
     assert.equal(report.status, 'fail');
-    const diagnosis = report.matrix?.diagnosis;
-    assert.ok(diagnosis && (diagnosis.kind === 'region' || diagnosis.kind === 'rowFactor'), JSON.stringify(diagnosis));
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'columns', columns: [3] });
+    assert.match(report.findings.find((f) => f.code === 'jacobian-mismatch')!.message, /column 3 wrong, not by one constant factor/);
+  });
+
+  test('a column missing a factor that varies by residual (Meyer: the chain rule of column 2 dropped)', () => {
+    const meyer = byName('Meyer');
+    const report = checkJacobian(meyer, (J, x) => J.map((row, i) => [row[0], row[1], row[2] * (45 + 5 * (i + 1) + x[2]) ** 2]));
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'columns', columns: [2] });
+  });
+
+  test('errors confined to a block of rows and columns (Brown and Dennis: residuals 5–9, columns 1–3)', () => {
+    const report = checkJacobian(byName('Brown and Dennis'), (J) => J.map((row, i) => (i >= 5 && i <= 9 ? [row[0], row[1] * (1 + i / 10), row[2] * (1 - i / 20), row[3] * 1.1] : row)));
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'region', rows: [5, 9], columns: [1, 3] });
+    assert.match(report.findings.find((f) => f.code === 'jacobian-mismatch')!.message, /confined to rows 5–9, columns 1–3/);
   });
 });
 
@@ -133,5 +145,47 @@ describe('bad Jacobian shapes are findings that name both shapes', () => {
   test('an object stating its shape is read by it', () => {
     const report = checkJacobian(bard, (J) => ({ rows: 15, cols: 3, data: J.flat() }));
     assert.equal(report.status, 'pass');
+  });
+});
+
+describe('a gradient pair built from residuals is compared with Jᵀr', () => {
+  // MGH state every problem as f = Σ rᵢ² (‖r‖²), whose gradient is 2Jᵀr (Moré, Garbow & Hillstrom 1981, §2).
+  const bard = leastSquares.find((p) => p.name.startsWith('Bard'))!;
+  const model = bard.residuals as Residuals;
+  const residualFunctions = { objective: (x: unknown) => model(x as number[]).r, gradient: (x: unknown) => model(x as number[]).J, makeVector: makeArray };
+  const jtr = (x: number[]) => {
+    const { r, J } = model(x);
+    return x.map((_, j) => r.reduce((sum, ri, i) => sum + J[i][j] * ri, 0));
+  };
+  const run = (f: (x: number[]) => number, g: (x: number[]) => number[]) =>
+    checkByKind.gradient({ objective: (x) => f(x as number[]), gradient: (x) => g(x as number[]), makeVector: makeArray, residuals: residualFunctions }, [bard.start], { dimension: null, learningRate: null, options: defaultCheckOptions });
+
+  test('‖r‖² with 2Jᵀr: consistent, no finding', () => {
+    const report = run(bard.f, bard.g);
+    assert.deepEqual(report.leastSquaresForm, { probeIndex: 0, objective: 'full', gradient: 'full' });
+    assert.equal(report.findings.filter((f) => f.code === 'least-squares-inconsistent').length, 0);
+  });
+
+  test('½‖r‖² with Jᵀr: consistent', () => {
+    const report = run((x) => bard.f(x) / 2, jtr);
+    assert.deepEqual(report.leastSquaresForm, { probeIndex: 0, objective: 'half', gradient: 'half' });
+    assert.equal(report.status, 'pass');
+  });
+
+  test('‖r‖² with Jᵀr: the finding names both forms', () => {
+    const report = run(bard.f, jtr);
+    const finding = report.findings.find((f) => f.code === 'least-squares-inconsistent')!;
+    assert.match(finding.message, /is ‖r‖² .* so its gradient is 2Jᵀr; the gradient returns Jᵀr/);
+  });
+
+  test('½‖r‖² with 2Jᵀr: the finding names both forms', () => {
+    const report = run((x) => bard.f(x) / 2, bard.g);
+    assert.match(report.findings.find((f) => f.code === 'least-squares-inconsistent')!.message, /is ½‖r‖² .* so its gradient is Jᵀr; the gradient returns 2Jᵀr/);
+  });
+
+  test('an objective that is not a sum of these squares is left alone', () => {
+    const report = run((x) => bard.f(x) + x[0] * x[0], (x) => bard.g(x).map((v, j) => v + (j === 0 ? 2 * x[0] : 0)));
+    assert.equal(report.leastSquaresForm?.objective, null);
+    assert.equal(report.findings.filter((f) => f.code === 'least-squares-inconsistent').length, 0);
   });
 });

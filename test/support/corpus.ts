@@ -8,6 +8,9 @@ import { fixturesDir } from './paths';
 export const corpusDir = path.join(fixturesDir, 'realistic');
 
 export interface TruthTarget {
+  /** What is checked; absent means 'gradient'. */
+  kind?: 'gradient' | 'jacobian' | 'hessian' | 'hessianVectorProduct';
+  /** The value function: the objective, the residual function, or the gradient of a Hessian. */
   value: string;
   /** Null when one function returns value and gradient. */
   derivative: string | null;
@@ -54,6 +57,7 @@ export function loadCorpus(): CorpusModule[] {
 
 /** What the CLI's JSON says of one pair (the fields the corpus reads). */
 export interface ReportedPair {
+  kind: string;
   objective: string;
   gradient: string;
   combined: boolean;
@@ -97,7 +101,8 @@ export function scoreModule(module: CorpusModule, reported: ReportedPair[]): Mod
   for (const target of module.truth.targets) {
     score.intended++;
     const labels = labelsOf(target);
-    const pair = reported.find((p) => p.objective === labels.objective && p.gradient === labels.gradient);
+    const kind = target.kind ?? 'gradient';
+    const pair = reported.find((p) => p.kind === kind && p.objective === labels.objective && p.gradient === labels.gradient);
     const name = `${labels.objective} → ${labels.gradient}`;
     if (!pair) {
       score.problems.push(`${name}: not found (found: ${reported.map((p) => `${p.objective} → ${p.gradient}`).join(', ') || 'nothing'})`);

@@ -5,7 +5,7 @@
 // first of them ran the user's code.
 import type { PairReport, ProbeReport } from '../../../server/src/engine/types';
 import type { PairReportResult } from '../../../server/src/shared/protocol';
-import { derivativeRows, errorShapeOf, functionWords, noDivergenceStep, verdictOf } from '../../../server/src/shared/wording';
+import { derivativeRows, describeLeastSquaresForm, errorShapeOf, functionWords, noDivergenceStep, verdictOf } from '../../../server/src/shared/wording';
 import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from './format';
 import { errorHeatMap } from './heatMap';
 import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
@@ -86,6 +86,7 @@ function figuresTable(report: PairReport): string {
           ['cond(JᵀJ)', leastSquares.conditionNumber === null ? 'singular to rounding' : formatFigure(leastSquares.conditionNumber)],
         ] as Array<[string, string]>)
       : []),
+    ...(report.leastSquaresForm ? [['Built from residuals', describeLeastSquaresForm(report.leastSquaresForm)] as [string, string]] : []),
     ['L̂ (local Lipschitz estimate)', formatFigure(s?.lipschitz)],
     ['Safe step 1/L̂', formatFigure(s?.safeStep)],
     ['Divergence step 2/λ⁺', s?.divergenceStep === null ? noDivergenceStep : formatFigure(s?.divergenceStep)],

@@ -12,6 +12,7 @@ export const findingTitles: Record<FindingCode, string> = {
   'hessian-not-symmetric': 'The Hessian is not symmetric, so at least one of two mirrored entries is wrong.',
   'matrix-wrong-shape': 'The Jacobian or Hessian has the wrong shape, is transposed, or has ragged rows.',
   'matrix-undecided': 'Some entries (or directions) of a Jacobian or Hessian were neither confirmed nor found wrong at any probe, so the target does not pass.',
+  'least-squares-inconsistent': 'The objective is ½‖r‖² (or ‖r‖²) of residuals with a Jacobian in the same file, and its gradient is not Jᵀr (or 2Jᵀr).',
   'value-not-a-vector': 'The residual function (or the gradient a Hessian is checked against) returns something that is not an array of numbers, or a different number of values from call to call.',
   'gradient-wrong-length': 'The gradient returns a vector whose length differs from the number of parameters.',
   'gradient-not-a-vector': 'The gradient returns something that is not an array of numbers.',

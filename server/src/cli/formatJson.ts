@@ -42,6 +42,7 @@ export function formatJson(outcomes: FileOutcome[], meta: { version: string; see
       diagnosis: report.diagnosis,
       // Jacobians and Hessians: the shape, the shape of the error, asymmetry and the least-squares figures.
       ...(report.matrix ? { matrix: report.matrix } : {}),
+      ...(report.leastSquaresForm ? { leastSquaresForm: report.leastSquaresForm } : {}),
       mu: report.smoothness?.mu ?? null,
       kappa: report.smoothness?.kappa ?? null,
       divergenceStep: report.smoothness?.divergenceStep ?? null,

@@ -31,6 +31,7 @@ export function discoverPairs(text: string, fileName: string, importers: () => r
   let known: readonly SourceText[] | null = null;
   const importersOnce = () => (known ??= importers());
   const pairs = paired.matches.map((match) => describePair(sourceFile, bindings, types, match, learningRates.rates.get(match) ?? null, importersOnce));
+  linkResiduals(paired.matches, pairs);
   return { pairs, fileFindings: [...syntaxErrors(sourceFile), ...paired.fileFindings, ...learningRates.fileFindings] };
 }
 
@@ -99,6 +100,31 @@ function describePair(
  */
 export function anchorOf<Function>(target: { kind: TargetKind; objective: Function; gradient: Function | null }): Function {
   return target.kind === 'gradient' || !target.gradient ? target.objective : target.gradient;
+}
+
+/**
+ * A gradient pair whose objective calls the residual function of a Jacobian target of the same
+ * group gets that target's recipe, so the check compares ∇f with Jᵀr (both run from one bundle).
+ */
+function linkResiduals(matches: PairMatch[], pairs: DiscoveredPair[]): void {
+  matches.forEach((match, index) => {
+    const objective = match.objective.fn;
+    if (match.kind !== 'gradient' || !objective || pairs[index].entry) return;
+    const source = matches.findIndex((m) => m.kind === 'jacobian' && m.group === match.group && !pairs[matches.indexOf(m)].entry && calls(objective, m.objective.name));
+    if (source >= 0) pairs[index].plan.residuals = pairs[source].plan.recipe;
+  });
+}
+
+/** `name(…)`, `this.name(…)` or `host.name(…)` somewhere in the function's body. */
+function calls(fn: ts.Node, name: string): boolean {
+  const visit = (node: ts.Node): boolean => {
+    if (ts.isCallExpression(node)) {
+      const callee = node.expression;
+      if ((ts.isIdentifier(callee) && callee.text === name) || (ts.isPropertyAccessExpression(callee) && callee.name.text === name)) return true;
+    }
+    return ts.forEachChild(node, visit) ?? false;
+  };
+  return visit(fn);
 }
 
 function namedSpan(sourceFile: ts.SourceFile, callable: Callable): NamedSpan {

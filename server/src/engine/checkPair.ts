@@ -7,6 +7,7 @@ import { buildStepStudy, carriedNoise, checkProbe, type ProbeOutcome, type Probe
 import type { ProbeContext } from './probeContext';
 import { createRandom } from './random';
 import { probesAroundStart } from './startProbes';
+import { compareWithResiduals } from './leastSquaresForm';
 import { probeSmoothness, smoothnessOf } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
 import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type UndecidedReason, type Vector } from './types';
@@ -19,6 +20,8 @@ export interface PairFunctions {
   gradient(x: Vector, direction?: Vector): unknown;
   /** A fresh vector of the kind (number[] or Float64Array) and realm the user's code expects. */
   makeVector(values: ArrayLike<number>): Vector;
+  /** The residual function and Jacobian the objective is built from, when discovery found them: ∇f is compared with Jᵀr. */
+  residuals?: PairFunctions;
 }
 
 export type PairPlan = Pick<CheckPlan, 'dimension' | 'learningRate' | 'options'> & {
@@ -46,7 +49,8 @@ export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan
     const points = probePoints(probes, plan, options, report);
     if (points !== null) {
       calls = createUserCalls(fns, points[0].length, { clock: () => readClock(clock), endsAt: plan.endsAt ?? null });
-      runChecks(calls, points, plan, options, report);
+      const first = runChecks(calls, points, plan, options, report);
+      if (first && fns.residuals) compareWithResiduals(fns.residuals, first, { clock: () => readClock(clock), endsAt: plan.endsAt ?? null }, report);
     }
   } catch (err) {
     report.status = 'error';
@@ -136,7 +140,8 @@ function expectedSpotCalls(work: Extract<ProbeWork, { mode: 'spot' }>): number {
   return 2 + callsPerDerivative * (1 + work.components.length);
 }
 
-function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
+/** Returns the first probe's context (f and ∇f there), or null when no probe was decided. */
+function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): ProbeContext | null {
   // The gradient verdict first, probe by probe while it keeps passing: a mismatch decides it.
   // Probe 1 is checked whole; the others are spot checks where probe 1 settled the gradient,
   // and a spot check that finds a mismatch or a kink is checked again whole, with the noise measured there.
@@ -175,7 +180,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
   if (outcomes.length === 0) {
     report.status = 'inconclusive';
     report.findings.push(budgetFinding(calls, 'the time budget ran out before probe 1 was decided; no verdict'));
-    return;
+    return null;
   }
   if (cutShort) report.findings.push(budgetFinding(calls, `the time budget ran out after ${outcomes.length === 1 ? 'probe 1' : `probes 1–${outcomes.length}`} of ${points.length}; the verdict rests on ${outcomes.length === 1 ? 'it' : 'them'}`));
   report.maxRelError = Math.max(...outcomes.map((o) => o.report.maxRelError));
@@ -218,7 +223,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
 
   // A wrong gradient gives wrong curvature, so smoothness and rates are only
   // estimated when no mismatch was found, and only at probes where f is smooth.
-  if (failing) return;
+  if (failing) return outcomes[0].context;
   try {
     estimateSmoothness(calls, outcomes, plan, options, report);
   } catch (err) {
@@ -227,6 +232,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
     report.learningRate = null;
     report.findings.push(budgetFinding(calls, 'the time budget ran out before the smoothness estimate was done; no learning-rate verdict'));
   }
+  return outcomes[0].context;
 }
 
 /**

@@ -8,6 +8,8 @@ import type { EntryCheck, MatrixDiagnosis } from './types';
 const shapeTolerance = 1e-6;
 // A block covering more than this share of the matrix is no region worth naming.
 const regionShare = 0.5;
+// Wrong entries in at most this many columns (or rows) are named by them.
+const fewLines = 2;
 
 interface Table {
   rows: number;
@@ -35,6 +37,10 @@ export function diagnoseMatrix(rows: number, columns: number, entries: EntryChec
     if (shape) return shape;
   }
   if (wrong.length === 1) return { kind: 'entry', row: wrong[0].row, column: wrong[0].column };
+  const wrongColumns = [...new Set(wrong.map((e) => e.column))].sort((a, b) => a - b);
+  const wrongRows = [...new Set(wrong.map((e) => e.row))].sort((a, b) => a - b);
+  if (wrongColumns.length <= fewLines && wrongColumns.length < columns) return { kind: 'columns', columns: wrongColumns };
+  if (wrongRows.length <= fewLines && wrongRows.length < rows) return { kind: 'rows', rows: wrongRows };
   const rowsSpan: [number, number] = [Math.min(...wrong.map((e) => e.row)), Math.max(...wrong.map((e) => e.row))];
   const columnsSpan: [number, number] = [Math.min(...wrong.map((e) => e.column)), Math.max(...wrong.map((e) => e.column))];
   const area = (rowsSpan[1] - rowsSpan[0] + 1) * (columnsSpan[1] - columnsSpan[0] + 1);

@@ -115,6 +115,11 @@ export interface CheckPlan {
   dimension: number | null;
   learningRate: DeclaredRate | null;
   options: CheckOptions;
+  /**
+   * Gradient pairs whose objective calls a residual function that has a Jacobian: that target's
+   * recipe, so that ∇f is compared with Jᵀr (or 2Jᵀr).
+   */
+  residuals?: CallRecipe;
 }
 
 /** Stable finding codes. They appear in the CLI, SARIF rules and editor diagnostics. */
@@ -126,6 +131,7 @@ export type FindingCode =
   | 'hessian-not-symmetric'
   | 'matrix-wrong-shape'
   | 'matrix-undecided'
+  | 'least-squares-inconsistent'
   | 'value-not-a-vector'
   | 'gradient-wrong-length'
   | 'gradient-not-a-vector'
@@ -339,6 +345,9 @@ export type MatrixDiagnosis =
   /** Only the diagonal is wrong, by a common factor (a doubled diagonal). */
   | { kind: 'diagonalFactor'; factor: number }
   | { kind: 'entry'; row: number; column: number }
+  /** Every wrong entry lies in these few columns (or rows), not by one factor: a chain-rule factor that varies along them. */
+  | { kind: 'columns'; columns: number[] }
+  | { kind: 'rows'; rows: number[] }
   /** The wrong entries lie within rows [from, to] × columns [from, to]. */
   | { kind: 'region'; rows: [number, number]; columns: [number, number] }
   | { kind: 'unknown' };
@@ -358,6 +367,15 @@ export interface MatrixSummary {
   leastSquares?: { probeIndex: number; sigmaMaxSquared: number; sigmaMinSquared: number; conditionNumber: number | null };
 }
 
+/** Whether f is ½‖r‖² or ‖r‖² of the residuals found with it, and whether ∇f is Jᵀr or 2Jᵀr; null for neither. */
+export interface LeastSquaresForm {
+  probeIndex: number;
+  /** 'half': f = ½‖r‖²; 'full': f = ‖r‖². */
+  objective: 'half' | 'full' | null;
+  /** 'half': ∇f = Jᵀr; 'full': ∇f = 2Jᵀr. */
+  gradient: 'half' | 'full' | null;
+}
+
 export interface PairReport {
   kind: TargetKind;
   status: PairStatus;
@@ -366,6 +384,8 @@ export interface PairReport {
   diagnosis: Diagnosis | null;
   /** Matrix kinds only. */
   matrix?: MatrixSummary;
+  /** Gradient pairs whose objective is built from residuals with a Jacobian. */
+  leastSquaresForm?: LeastSquaresForm;
   smoothness: SmoothnessEstimate | null;
   learningRate: LearningRateVerdict | null;
   probes: ProbeReport[];

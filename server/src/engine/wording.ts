@@ -88,6 +88,10 @@ export function describeMatrixDiagnosis(diagnosis: MatrixDiagnosis | null, wordi
       return `the diagonal alone is wrong: ${shortNumber(diagnosis.factor, 6)}× the true one`;
     case 'entry':
       return `one entry wrong, ${wording.entry(diagnosis.row, diagnosis.column)}`;
+    case 'columns':
+      return `${diagnosis.columns.length === 1 ? 'column' : 'columns'} ${formatList(diagnosis.columns)} wrong, not by one constant factor (a factor that varies by ${wording.output}, such as a chain-rule term, is missing or extra)`;
+    case 'rows':
+      return `${diagnosis.rows.length === 1 ? 'row' : 'rows'} ${formatList(diagnosis.rows)} (${wording.output} ${formatList(diagnosis.rows)}) wrong, not by one constant factor`;
     case 'region':
       return `wrong entries confined to rows ${span(diagnosis.rows)}, columns ${span(diagnosis.columns)}`;
     default:

@@ -4,7 +4,7 @@ import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import type { RateStatus } from '../engine/types';
 import { documentNamespace } from '../discovery/importerCalls';
-import { baseName, describeCall, errorShapeOf, functionWords, noDivergenceStep, shortNumber, verdictOf, withoutNamespace } from '../shared/wording';
+import { baseName, describeCall, describeLeastSquaresForm, errorShapeOf, functionWords, noDivergenceStep, shortNumber, verdictOf, withoutNamespace } from '../shared/wording';
 
 export type NameRole = 'objective' | 'gradient' | 'learningRate';
 
@@ -51,6 +51,7 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
     rows.push(['μ̂ (smallest curvature)', `${shortNumber(s.mu)}${s.mu < 0 ? ' (not convex here)' : ''}`]);
     rows.push(['κ̂ = L̂/μ̂', s.kappa === null ? '— (μ̂ ≤ 0)' : shortNumber(s.kappa)]);
   }
+  if (report.leastSquaresForm) rows.push(['built from residuals', describeLeastSquaresForm(report.leastSquaresForm)]);
   const rate = report.learningRate;
   if (rate) {
     const momentum = rate.momentum ? `; used with momentum \`${rate.momentum.name}\` = ${rate.momentum.value}, not taken into account` : '';

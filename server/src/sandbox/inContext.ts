@@ -86,8 +86,13 @@ function runPlan(scope: ModuleScope, plan: CheckPlan, given: TargetCheck | null,
   const check = given ?? (hasOwn(checkByKind, plan.kind) ? checkByKind[plan.kind] : null);
   if (!check) return errorReport([internalFinding(`the plan's kind '${String(plan.kind)}' has no check`)], now() - started);
   const read = (key: string): Read => readScope(scope, key);
-  const functions = resolveFunctions(read, plan);
+  const functions = resolveFunctions(read, plan.recipe, plan.argumentKind);
   if (isFailure(functions)) return errorReport(functions.findings, now() - started);
+  if (plan.residuals) {
+    // The residuals an objective is built from; when they cannot be had, their own target says why.
+    const residuals = resolveFunctions(read, plan.residuals, plan.argumentKind);
+    if (!isFailure(residuals)) functions.residuals = residuals;
+  }
   const probeFindings: Finding[] = [];
   const probes = plan.probes.map((point) => [...point]);
   for (const key of plan.probeKeys) {
@@ -113,11 +118,10 @@ function isFailure(resolved: Resolved): resolved is { findings: Finding[] } {
   return hasOwn(resolved, 'findings');
 }
 
-/** Turns the call recipe into the two functions the engine calls with a point. */
-function resolveFunctions(read: (key: string) => Read, plan: CheckPlan): Resolved {
-  const { recipe } = plan;
+/** Turns a call recipe into the two functions the engine calls with a point. */
+function resolveFunctions(read: (key: string) => Read, recipe: CheckPlan['recipe'], argumentKind: CheckPlan['argumentKind']): Resolved {
   const makeVector: PairFunctions['makeVector'] =
-    plan.argumentKind === 'float64array' ? (values) => new Float64Array(values) : copyToArray;
+    argumentKind === 'float64array' ? (values) => new Float64Array(values) : copyToArray;
   const extra: unknown[] = [];
   for (let index = 0; index < recipe.extraArguments.length; index++) {
     const key = recipe.extraArguments[index];

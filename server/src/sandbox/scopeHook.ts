@@ -8,10 +8,12 @@ import type { CheckPlan } from '../engine/types';
 export const scopeHookGlobal = '__slopecheckScope';
 
 /** Every scope key a plan reads. */
-export function scopeKeysOf(plan: Pick<CheckPlan, 'recipe' | 'probeKeys' | 'start'>): string[] {
-  const { recipe } = plan;
-  const keys = recipe.host ? [recipe.host.key] : [recipe.value, ...(recipe.derivative === null ? [] : [recipe.derivative])];
-  for (const argument of recipe.extraArguments) if (argument !== null) keys.push(argument);
+export function scopeKeysOf(plan: Pick<CheckPlan, 'recipe' | 'probeKeys' | 'start' | 'residuals'>): string[] {
+  const keys: string[] = [];
+  for (const recipe of [plan.recipe, ...(plan.residuals ? [plan.residuals] : [])]) {
+    keys.push(...(recipe.host ? [recipe.host.key] : [recipe.value, ...(recipe.derivative === null ? [] : [recipe.derivative])]));
+    for (const argument of recipe.extraArguments) if (argument !== null) keys.push(argument);
+  }
   keys.push(...plan.probeKeys);
   if (plan.start !== null) keys.push(plan.start);
   return [...new Set(keys)];

@@ -14,6 +14,7 @@ import type {
   EntryCheck,
   Finding,
   FindingSubject,
+  LeastSquaresForm,
   LearningRateVerdict,
   MatrixDiagnosis,
   MatrixSummary,
@@ -196,6 +197,8 @@ const matrixDiagnosisOfKind: { [K in MatrixDiagnosis['kind']]: Reader<Extract<Ma
   diagonalFactor: objectOf({ kind: oneOf(['diagonalFactor']), factor: measurement }, {}),
   entry: objectOf({ kind: oneOf(['entry']), row: count, column: count }, {}),
   region: objectOf({ kind: oneOf(['region']), rows: countPair, columns: countPair }, {}),
+  columns: objectOf({ kind: oneOf(['columns']), columns: indices }, {}),
+  rows: objectOf({ kind: oneOf(['rows']), rows: indices }, {}),
   unknown: objectOf({ kind: oneOf(['unknown']) }, {}),
 };
 const matrixDiagnosisKind = objectOf<Pick<MatrixDiagnosis, 'kind'>>({ kind: oneOf(Object.keys(matrixDiagnosisOfKind) as Array<MatrixDiagnosis['kind']>) }, {});
@@ -233,5 +236,8 @@ const pairReport = objectOf<PairReport>(
     evaluations: objectOf<PairReport['evaluations']>({ objective: count, gradient: count }, {}),
     elapsedMs: nonNegative,
   },
-  { matrix: matrixSummary },
+  {
+    matrix: matrixSummary,
+    leastSquaresForm: objectOf<LeastSquaresForm>({ probeIndex: count, objective: nullOr(oneOf(['half', 'full'] as const)), gradient: nullOr(oneOf(['half', 'full'] as const)) }, {}),
+  },
 );

@@ -1,7 +1,7 @@
 // The words and figures a user reads about a pair, one set for every place they appear
 // (diagnostics, hover, code lens, quick pick, status bar, report, CLI).
 import { kindWording } from '../engine/kindWording';
-import type { CheckPlan, DirectionalCheck, PairReport, PairStatus, ProbeReport, TargetKind, UndecidedReason } from '../engine/types';
+import type { CheckPlan, DirectionalCheck, LeastSquaresForm, PairReport, PairStatus, ProbeReport, TargetKind, UndecidedReason } from '../engine/types';
 import { describeDiagnosis, describeMatrixDiagnosis } from '../engine/wording';
 
 // Figures and the shape of an error are worded where the engine words its findings.
@@ -105,4 +105,12 @@ export function derivativeRows(kind: TargetKind, probe: ProbeReport): { heading:
   if (probe.entries && probe.entries.length > 0) return { heading: 'entry', rows: probe.entries.map((e) => row(kindWording[kind].entry(e.row, e.column), e, e.relError)) };
   if (probe.components.length > 0) return { heading: 'component', rows: probe.components.map((c) => row(String(c.index), c, c.relError)) };
   return { heading: 'direction', rows: probe.directions.map((d, i) => row(String(i + 1), d, null)) };
+}
+
+/** "f = ½‖r‖², ∇f = Jᵀr: consistent", for a gradient pair built from residuals. */
+export function describeLeastSquaresForm(form: LeastSquaresForm): string {
+  const value = form.objective === 'half' ? '½‖r‖²' : form.objective === 'full' ? '‖r‖²' : 'not ½‖r‖² or ‖r‖²';
+  const gradient = form.gradient === 'half' ? 'Jᵀr' : form.gradient === 'full' ? '2Jᵀr' : 'neither Jᵀr nor 2Jᵀr';
+  const verdict = form.objective === null ? '' : form.objective === form.gradient ? ': consistent' : ': inconsistent';
+  return `f = ${value}, ∇f = ${gradient}${verdict} (probe ${form.probeIndex + 1})`;
 }
