@@ -73,12 +73,15 @@ function record(tally: CheckerTally, verdict: Verdict, evaluations: number, kind
   if (verdict === 'inconclusive') byKind.inconclusive++;
 }
 
+/** The engine's own error bound could tell this analytic value from the true derivative. */
+export const outsideBound = (analytic: number, truth: number, errorBound: number) => Math.abs(analytic - truth) > errorBound;
+
 /** Could the engine's own error bounds have told this mutant from the truth at the point? */
 function whyMissed(report: PairReport, trueGradient: number[], relativeSize: number): string {
   const probe = report.probes[0];
   if (!probe) return 'no probe report';
   if (probe.mode === 'full') {
-    const resolvable = probe.components.filter((c) => Math.abs(c.analytic - trueGradient[c.index]) > c.errorBound);
+    const resolvable = probe.components.filter((c) => outsideBound(c.analytic, trueGradient[c.index], c.errorBound));
     return resolvable.length === 0
       ? 'within the error estimate: every wrong component is inside its numerical error bound'
       : `resolvable: components ${resolvable.slice(0, 5).map((c) => `${c.index} (off by ${(c.analytic - trueGradient[c.index]).toExponential(2)}, bound ${c.errorBound.toExponential(2)})`).join(', ')} exceed their bounds`;

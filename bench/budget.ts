@@ -57,12 +57,15 @@ function run(n: number, costMs: number, wrong: boolean, endsAt: number | null, s
   return { report, clockMs: clock };
 }
 
+/** The gradient verdict's target: 4(2n + 1) + 40 calls up to n = 64, flat above. */
+export const verdictCallsTarget = (n: number) => 4 * (2 * Math.min(n, 64) + 1) + 40;
+
 /** Calls of the objective and the gradient a check made. */
 export const callsOf = (report: PairReport) => report.evaluations.objective + report.evaluations.gradient;
 
 export function runBudget(log: (line: string) => void): BudgetResult {
   const calls = [2, 5, 10, 20, 50, 64, 100, 1000].map((n) => {
-    const verdictTarget = 4 * (2 * Math.min(n, 64) + 1) + 40;
+    const verdictTarget = verdictCallsTarget(n);
     const verdictCalls = callsOf(run(n, 0, false, null, false).report);
     return { n, verdictCalls, verdictTarget, calls: callsOf(run(n, 0, false, null, true).report), textbook: 2 * n + 1, target: 2 * verdictTarget };
   });

@@ -15,7 +15,7 @@ export interface CorrectCase {
 }
 
 /** The start and `extra` seeded points xᵢ + 0.1·max(1, |xᵢ|)·N(0, 1) around it. */
-function around(problem: TestProblem, extra: number, seed: number, float64 = false): CorrectCase[] {
+export function around(problem: TestProblem, extra: number, seed: number, float64 = false): CorrectCase[] {
   const normal = seededNormal(seed);
   const points = [problem.start, ...Array.from({ length: extra }, () => problem.start.map((v) => v + 0.1 * Math.max(1, Math.abs(v)) * normal()))];
   return points.map((point, k) => ({ label: `${problem.name} @ ${k === 0 ? 'x0' : `x0+δ${k}`}`, problem, point, float64 }));

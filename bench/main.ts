@@ -1,5 +1,5 @@
-// npm run bench: accuracy, smoothness, real code, calls and budget, the adversarial table, scale and editor latency, then the report files.
-// Usage: node bench/run.mjs [accuracy] [smoothness] [realcode] [budget] [adversarial] [scale] [latency]   (default: all)
+// npm run bench: accuracy, smoothness, real code, calls and budget, the adversarial table, Jacobians, scale and editor latency, then the report files.
+// Usage: node bench/run.mjs [accuracy] [smoothness] [realcode] [budget] [adversarial] [jacobian] [scale] [latency]   (default: all)
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import * as os from 'node:os';
 import * as path from 'node:path';
@@ -7,6 +7,7 @@ import { repoRoot } from '../test/support/paths';
 import { runAccuracy } from './accuracy';
 import { runAdversarial } from './adversarial';
 import { runBudget } from './budget';
+import { runJacobian } from './jacobian';
 import { runLatency } from './latency';
 import { runRealCode } from './realCode';
 import { latestJson, markdown, scaleSvg, type BenchResults } from './report';
@@ -36,6 +37,7 @@ async function main(): Promise<void> {
     realCode: null,
     budget: null,
     adversarial: null,
+    jacobian: null,
     scale: null,
     latency: null,
   };
@@ -59,6 +61,10 @@ async function main(): Promise<void> {
   if (wants('adversarial')) {
     log('adversarial cases…');
     results.adversarial = runAdversarial(log);
+  }
+  if (wants('jacobian')) {
+    log('jacobians…');
+    results.jacobian = runJacobian(log);
   }
   if (wants('scale')) {
     log('scale…');

@@ -2,8 +2,11 @@
 // bench/results/latest.md (the README's "Measured" tables) and docs/scale.svg.
 import type { AccuracyResult, CheckerTally } from './accuracy';
 import type { AdversarialRow } from './adversarial';
+import { baselineTolerance } from './baseline';
 import type { BudgetResult } from './budget';
+import type { JacobianKindRow, JacobianResult } from './jacobian';
 import type { LatencyResult } from './latency';
+import { jacobianShapeKinds } from './mutants';
 import type { RealCodeResult, RealCodeRow } from './realCode';
 import type { ScaleRow } from './scale';
 import type { SmoothnessResult } from './smoothness';
@@ -22,6 +25,7 @@ export interface BenchResults {
   realCode: RealCodeResult | null;
   budget: BudgetResult | null;
   adversarial: AdversarialRow[] | null;
+  jacobian: JacobianResult | null;
   scale: ScaleRow[] | null;
   latency: (Omit<Partial<LatencyResult>, 'medianMs' | 'p95Ms' | 'firstCheckMs' | 'rssMb'> & { medianMs: number | null; p95Ms: number | null; firstCheckMs: number | null; rssMb: number | null; note?: string }) | null;
 }
@@ -45,6 +49,66 @@ function accuracyTable(s: CheckerTally, b: CheckerTally): string {
     ['evaluations per case (f + ∇f, mean)', fmt(s.evaluationsPerCase, 3), fmt(b.evaluationsPerCase, 3)],
   ];
   return table(['', 'Slopecheck', 'forward differences, tol 1e-4'], rows);
+}
+
+const cell = (text: string) => text.replace(/\|/g, '/');
+const tolerance = baselineTolerance.toExponential();
+
+/** Mutants of a kind that keeps the matrix's shape: a mismatch, not a shape error, is the answer. */
+const mismatchRows = (j: JacobianResult) => j.rows.filter((r) => r.kind !== 'unmutated' && !jacobianShapeKinds.includes(r.kind));
+/** Of a row's mutants, those the engine's own error estimate could tell from the truth. */
+const resolvableCases = (r: JacobianKindRow) => r.cases - r.withinEstimate;
+
+/** The Jacobian check's targets against what was measured: rows of the targets table and the section's heading. */
+function jacobianTargets(j: JacobianResult): Array<[string, string, boolean]> {
+  const unmutated = j.rows.find((r) => r.kind === 'unmutated')!;
+  const mutants = mismatchRows(j);
+  const total = (of: (r: JacobianKindRow) => number) => mutants.reduce((sum, r) => sum + of(r), 0);
+  const [caught, resolvable, within, undecided] = [total((r) => r.engine.fail), total(resolvableCases), total((r) => r.withinEstimate), total((r) => r.engine.inconclusive)];
+  return [
+    ['Jacobian check: zero false alarms on the unmutated Moré–Garbow–Hillstrom Jacobians', `${unmutated.engine.fail} of ${unmutated.cases} (forward differences, tol ${tolerance}: ${unmutated.baseline.fail})`, unmutated.engine.fail === 0],
+    [
+      'Jacobian check: ≥ 99 % of mutants (relative size ≥ 1e-6) caught where the error estimate allows',
+      `${caught} of ${resolvable} (${pct(caught, resolvable)}); ${within} more within the error estimate; ${undecided} of all ${total((r) => r.cases)} inconclusive`,
+      caught >= 0.99 * resolvable,
+    ],
+  ];
+}
+
+function jacobianSection(j: JacobianResult): string[] {
+  const targets = jacobianTargets(j).map(([target, measured, met]) => `${target}: ${met ? 'met' : '**not met**'} (${measured})`);
+  const shape = new Set<string>(jacobianShapeKinds);
+  const rows = j.rows.map((r) => {
+    const mutant = r.kind !== 'unmutated' && !shape.has(r.kind);
+    return [
+      r.kind === 'unmutated' ? 'unmutated (fail = false alarm)' : r.kind, r.cases,
+      r.engine.fail, r.engine.inconclusive, r.engine.pass, r.engine.shape, r.engine.error,
+      mutant ? `${r.engine.fail} of ${resolvableCases(r)} (${pct(r.engine.fail, resolvableCases(r))})` : '–',
+      mutant ? `${r.diagnosisKind} / ${r.diagnosisOtherTrue} / ${r.diagnosisWrong}` : '–',
+      r.baseline.fail, r.baseline.inconclusive, r.baseline.pass, r.baseline.shape,
+    ];
+  });
+  const parts = [
+    '### Jacobians (Moré–Garbow–Hillstrom residuals)',
+    `${j.problems} least-squares problems, each at its standard start and ${j.pointsAroundStart} seeded points around it (${j.points} points), unmutated and mutated; ` +
+      `Slopecheck's Jacobian check beside forward differences with h = √ε·max(1, |xⱼ|), an entry flagged when |J − J_num| > ${tolerance}·max(|J|, |J_num|, 1). ` +
+      `A transposed matrix that is not square has the wrong shape: there a shape finding is the answer. Targets — ${targets.join('; ')}.`,
+    table(['case', 'cases', 'Slopecheck: fail', 'inconclusive', 'pass', 'shape finding', 'other error', 'caught where the error estimate allows', 'diagnosis of caught: right kind / another true / wrong or none', `forward differences, tol ${tolerance}: fail`, 'inconclusive', 'pass', 'shape finding'], rows),
+  ];
+  const notes = (title: string, header: string[], list: Array<Array<string | number>>) => (list.length > 0 ? [title, table(header, list.map((row) => row.map((c) => cell(String(c)))))] : []);
+  parts.push(
+    ...notes('Slopecheck false alarms:', ['case', 'finding'], j.falseAlarms.map((n) => [n.label, n.why])),
+    ...notes('Slopecheck without a verdict on unmutated Jacobians:', ['case', 'verdict', 'finding'], j.undecidedCorrect.map((n) => [n.label, n.status, n.why])),
+    ...notes('Mutants Slopecheck did not catch:', ['case', 'mutant', 'where', 'verdict', 'why'], j.notCaught.map((n) => [n.label, n.kind, n.where, n.status, n.why])),
+    ...notes('Mutants caught with a diagnosis other than the one planted:', ['case', 'mutant', 'where', 'diagnosis', 'judged'], j.wrongDiagnosis.map((n) => [n.label, n.kind, n.where, n.diagnosis, n.why])),
+  );
+  if (j.baselineFalseAlarms.length > 0) parts.push(`Forward differences flagged ${j.baselineFalseAlarms.length} unmutated Jacobians: ${j.baselineFalseAlarms.join('; ')}.`);
+  parts.push(
+    'Calls for the verdict on a correct Jacobian at one probe (the residuals rᵢ = wᵢ·sinh(0.3·xⱼ) + ½·xⱼ·xₖ of bench/jacobian.ts), beside the textbook forward-difference check (n + 1 residual calls, one Jacobian) and, for reference only, the gradient verdict\'s target at the same n (no Jacobian target is set):',
+    table(['n', 'm', 'verdict', 'mode', 'residual calls', 'Jacobian calls', 'total', 'forward differences', 'gradient verdict\'s target'], j.calls.map((r) => [r.n, r.m, r.status, r.mode, r.residualCalls, r.jacobianCalls, r.residualCalls + r.jacobianCalls, r.textbook, r.gradientTarget])),
+    `The section ran in ${fmt(j.seconds, 3)} s.`,
+  );
+  return parts;
 }
 
 /**
@@ -90,6 +154,7 @@ export function targetsTable(results: BenchResults): string {
   }
   const adv = results.adversarial;
   if (adv) rows.push(['adversarial cases: no false pass, no false rate alarm, no verdict lost to the budget', `${adv.filter((r) => r.held).length} of ${adv.length} held`, adv.every((r) => r.held)]);
+  if (results.jacobian) rows.push(...jacobianTargets(results.jacobian));
   const sm = results.smoothness;
   if (sm) {
     rows.push(['λmax estimate (Lanczos) relative error ≤ 1e-3 on quadratics up to n = 1000, within 40 products', `${fmt(sm.quadraticMaxRelErrRitz)}, at most ${sm.maxHessianVectorProducts} products`, sm.quadraticMaxRelErrRitz <= 1e-3 && sm.maxHessianVectorProducts <= 40]);
@@ -193,6 +258,7 @@ export function markdown(results: BenchResults): string {
     parts.push('### Adversarial cases', 'Each case is built to provoke one trap; it holds when the verdict is the one it must be (test/support/adversarial.ts, asserted in test/engine/adversarial.test.ts):',
       table(['case', 'trap', 'must give', 'gave', 'calls', 'held'], results.adversarial.map((r) => [r.name, r.trap, r.expected, r.got, r.calls, r.held ? 'yes' : 'no'])));
   }
+  if (results.jacobian) parts.push(...jacobianSection(results.jacobian));
   if (results.scale) {
     parts.push('### Scale (real sandbox, one wrong component)', table(['n', 'evaluations (f + ∇f)', 'wall time (s)', 'one f (ms)', 'one ∇f (ms)', 'overhead ratio', 'verdict', 'components named'],
       results.scale.map((r) => [r.n, `${r.evaluations} (${r.objectiveEvaluations} + ${r.gradientEvaluations})`, fmt(r.seconds, 3), fmt(r.objectiveMs, 3), fmt(r.gradientMs, 3), fmt(r.overheadRatio, 3), r.status, r.wrongComponents.join(', ')])));
@@ -254,6 +320,7 @@ export function latestJson(results: BenchResults): object {
     realCode: results.realCode,
     budget: results.budget,
     adversarial: results.adversarial,
+    jacobian: results.jacobian,
     scale: results.scale,
     latency: results.latency,
   };

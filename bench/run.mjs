@@ -1,5 +1,5 @@
 // Compiles bench/main.ts with esbuild (packages external) and runs it.
-// Usage: node bench/run.mjs [section...]   sections: accuracy smoothness realcode budget scale latency (default: all)
+// Usage: node bench/run.mjs [section...]   sections: accuracy smoothness realcode budget adversarial jacobian scale latency (default: all)
 import { rmSync } from 'node:fs';
 import * as path from 'node:path';
 import { compileForNode, repoRoot, runNode } from '../test/support/compile.mjs';

@@ -7,7 +7,7 @@ import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { checkByKind } from '../../server/src/engine/kinds';
 import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
-import { makeArray, moreGarbowHillstromSet, type TestProblem } from '../support/problems';
+import { makeArray, moreGarbowHillstromSet, trigonometric, type TestProblem } from '../support/problems';
 
 type Residuals = NonNullable<TestProblem['residuals']>;
 type Mutant = (J: number[][], x: ArrayLike<number>) => unknown;
@@ -187,5 +187,31 @@ describe('a gradient pair built from residuals is compared with Jᵀr', () => {
     const report = run((x) => bard.f(x) + x[0] * x[0], (x) => bard.g(x).map((v, j) => v + (j === 0 ? 2 * x[0] : 0)));
     assert.equal(report.leastSquaresForm?.objective, null);
     assert.equal(report.findings.filter((f) => f.code === 'least-squares-inconsistent').length, 0);
+  });
+});
+
+describe('large Jacobians: random directions, then the wrong columns located', () => {
+  // Trigonometric (MGH 26) at n = 100: a dense 100 × 100 Jacobian.
+  const p = trigonometric(100);
+
+  test('the exact Jacobian passes in directional mode', () => {
+    const report = checkJacobian(p);
+    assert.equal(report.status, 'pass', report.findings.map((f) => f.message).join('\n'));
+    assert.equal(report.probes[0].mode, 'directional');
+  });
+
+  test('one wrong entry is located by pooled directions and named', () => {
+    const report = checkJacobian(p, (J) => {
+      J[62][63] *= 1.01;
+      return J;
+    });
+    assert.equal(report.status, 'fail');
+    const finding = report.findings.find((f) => f.code === 'jacobian-mismatch')!;
+    assert.deepEqual(finding.entries, [[62, 63]]);
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'entry', row: 62, column: 63 });
+    const located = report.probes[0].localisation!;
+    assert.equal(located.incomplete, false);
+    // Group testing: far fewer column differences than the 100 a full check takes.
+    assert.ok(located.coordinateDifferences + located.pooledDifferences < 40, JSON.stringify(located));
   });
 });
