@@ -28,6 +28,11 @@ export interface DerivativeEstimate {
 export interface DifferenceSettings {
   /** Absolute noise level of φ (Moré–Wild estimate). */
   noise: number;
+  /**
+   * The size of φ the noise is taken to be relative to, so that it grows where |φ(±h)| exceeds it;
+   * |φ(0)| unless given (a residual that is 0 at the probe has noise from its terms, not from φ(0)).
+   */
+  valueScale?: number;
   /** Tableau rows computed before early stopping is allowed. */
   minLevels: number;
   maxLevels: number;
@@ -83,14 +88,18 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
   let flat = plus === phi0 && minus === phi0;
 
   // Noise relative to f grows where |φ(±h)| ≫ |φ(0)|; rounding alone is at least 2^-52·|φ(±h)|.
+  const valueScale = settings.valueScale ?? Math.abs(phi0);
   const noiseAt = (a: number, b: number) => {
     const size = Math.max(Math.abs(a), Math.abs(b));
-    const relativeGrowth = phi0 !== 0 ? Math.max(1, size / Math.abs(phi0)) : 1;
+    const relativeGrowth = valueScale > 0 ? Math.max(1, size / valueScale) : 1;
     return Math.max(noise * relativeGrowth, 2 ** -52 * size);
   };
   const rows: number[][] = [[(plus - minus) / (2 * firstStep)]];
   const steps = [firstStep];
   const gaps = [Math.abs(plus + minus - 2 * phi0)];
+  // The noise each level's values carry: what its gap must stand above to be signal (a φ that is
+  // exactly 0 at the probe has no measurable noise, yet its values at ±h still carry rounding).
+  const noises = [noiseAt(plus, minus)];
   let best = rows[0][0];
   let bestError = Number.POSITIVE_INFINITY;
   let bestStep = firstStep;
@@ -107,6 +116,7 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     gaps.push(Math.abs(plus + minus - 2 * phi0));
     const previousNoise = levelNoise;
     levelNoise = noiseAt(plus, minus);
+    noises.push(levelNoise);
     const row = [(plus - minus) / (2 * h)];
     for (let j = 1; j <= i; j++) {
       row.push(richardson(rows[i - 1][j - 1], row[j - 1], 2 * j));
@@ -126,9 +136,9 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
     if (noiseMultiplier * levelNoise / h > bestError) break;
   }
   const errorBound = estimateMargin * bestError + noiseMultiplier * bestNoise / bestStep;
-  const resolved = isResolved(steps, gaps, noise);
-  const kink = !resolved && looksKinked(phi, phi0, steps, gaps, noise);
-  return { value: best, errorBound, step: bestStep, kink, resolved, flat, curvatureFloor: resolved && !kink ? curvatureFloorOf(steps, gaps, noise) : 0 };
+  const resolved = isResolved(steps, gaps, noises);
+  const kink = !resolved && looksKinked(phi, phi0, steps, gaps, noiseAt);
+  return { value: best, errorBound, step: bestStep, kink, resolved, flat, curvatureFloor: resolved && !kink ? curvatureFloorOf(steps, gaps, noises) : 0 };
 }
 
 /**
@@ -137,14 +147,14 @@ export function differentiate(phi: (t: number) => number, phi0: number, h0: numb
  * Richardson's (4S(h/2) − S(h))/3, less a margin times the change between the levels and the
  * noise both can carry (4σ/h² at most, σ the noise of one value). 0 when no two levels qualify.
  */
-function curvatureFloorOf(steps: number[], gaps: number[], noise: number): number {
-  const signal = steps.flatMap((_, i) => (gaps[i] > signalOverNoise * noise ? [i] : []));
+function curvatureFloorOf(steps: number[], gaps: number[], noises: number[]): number {
+  const signal = steps.flatMap((_, i) => (gaps[i] > signalOverNoise * noises[i] ? [i] : []));
   if (signal.length < 2) return 0;
   const [coarse, fine] = signal.slice(-2);
   if (fine !== coarse + 1) return 0;
   const second = (i: number) => gaps[i] / steps[i] ** 2;
   const extrapolated = richardson(second(coarse), second(fine));
-  const uncertainty = estimateMargin * Math.abs(second(fine) - second(coarse)) + (4 * noise) / steps[fine] ** 2;
+  const uncertainty = estimateMargin * Math.abs(second(fine) - second(coarse)) + (4 * noises[fine]) / steps[fine] ** 2;
   return Math.max(0, extrapolated - uncertainty);
 }
 
@@ -174,10 +184,10 @@ const signalOverNoise = 100;
  * halvings; a gap that falls less than 2× there, while above noise, means the
  * steps do not resolve φ (a kink, or features finer than the steps).
  */
-function isResolved(steps: number[], gaps: number[], noise: number): boolean {
+function isResolved(steps: number[], gaps: number[], noises: number[]): boolean {
   const last = steps.length - 1;
   if (last < 3) return last >= 1;
-  if (!(gaps[last] > signalOverNoise * noise)) return true;
+  if (!(gaps[last] > signalOverNoise * noises[last])) return true;
   return gaps[last] / steps[last] < 0.5 * (gaps[last - 3] / steps[last - 3]);
 }
 
@@ -186,17 +196,16 @@ function isResolved(steps: number[], gaps: number[], noise: number): boolean {
  * shrinks like h·|φ''|; at a kink it stays at the jump of φ'. Suspicion from the
  * tableau is confirmed at two much smaller steps before we say so.
  */
-function looksKinked(phi: (t: number) => number, phi0: number, steps: number[], gaps: number[], noise: number): boolean {
+function looksKinked(phi: (t: number) => number, phi0: number, steps: number[], gaps: number[], noiseAt: (plus: number, minus: number) => number): boolean {
   const last = steps.length - 1;
   if (last < 3) return false;
-  const aboveNoise = (gap: number) => gap > signalOverNoise * noise;
   const slopeGap = (i: number) => gaps[i] / steps[i];
   for (const shrink of kinkConfirmingShrinks) {
     const h = steps[last] / shrink;
     const plus = phi(h);
     const minus = phi(-h);
     const gap = Math.abs(plus + minus - 2 * phi0);
-    if (!Number.isFinite(gap) || !aboveNoise(gap) || gap / h < 0.5 * slopeGap(last)) return false;
+    if (!Number.isFinite(gap) || !(gap > signalOverNoise * noiseAt(plus, minus)) || gap / h < 0.5 * slopeGap(last)) return false;
   }
   return true;
 }

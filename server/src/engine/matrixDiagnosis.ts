@@ -32,11 +32,12 @@ export function diagnoseMatrix(rows: number, columns: number, entries: EntryChec
   if (wrong.length === 0) return null;
   const byPosition = new Map(entries.map((e) => [e.row * columns + e.column, e]));
   const table: Table = { rows, columns, at: (i, j) => byPosition.get(i * columns + j) };
+  // One wrong entry is named as such, whatever else it could be read as (the only nonzero of its column, say).
+  if (wrong.length === 1) return { kind: 'entry', row: wrong[0].row, column: wrong[0].column };
   if (complete && entries.length === rows * columns) {
     const shape = transposed(table) ?? rowShift(table) ?? columnSwap(table, wrong) ?? factors(table, wrong);
     if (shape) return shape;
   }
-  if (wrong.length === 1) return { kind: 'entry', row: wrong[0].row, column: wrong[0].column };
   const wrongColumns = [...new Set(wrong.map((e) => e.column))].sort((a, b) => a - b);
   const wrongRows = [...new Set(wrong.map((e) => e.row))].sort((a, b) => a - b);
   if (wrongColumns.length <= fewLines && wrongColumns.length < columns) return { kind: 'columns', columns: wrongColumns };
@@ -48,17 +49,20 @@ export function diagnoseMatrix(rows: number, columns: number, entries: EntryChec
   return { kind: 'unknown' };
 }
 
-/** Every entry (i, j) equals the difference of (j, i), and the matrix is not symmetric. */
+/** Every entry (i, j) equals the difference of (j, i), and the true matrix is not symmetric (else transposing changes nothing). */
 function transposed(table: Table): MatrixDiagnosis | null {
   if (table.rows !== table.columns || table.rows < 2) return null;
+  let asymmetric = false;
   for (let i = 0; i < table.rows; i++) {
     for (let j = 0; j < table.columns; j++) {
       const entry = table.at(i, j)!;
       const mirror = table.at(j, i)!;
-      if (!near(entry.analytic, mirror.numerical, Math.max(entry.errorBound, mirror.errorBound))) return null;
+      const bound = Math.max(entry.errorBound, mirror.errorBound);
+      if (!near(entry.analytic, mirror.numerical, bound)) return null;
+      asymmetric ||= !near(entry.numerical, mirror.numerical, bound);
     }
   }
-  return { kind: 'transposed' };
+  return asymmetric ? { kind: 'transposed' } : null;
 }
 
 /** Row i holds output i + s's derivatives for every row that has such an output (s = ±1). */

@@ -94,7 +94,8 @@ export function checkMatrixProbe(
   const repeated = calls.outputs(x, site);
   const unrepeatable = values.some((v, i) => !(repeated[i] === v));
   const noise = noiseOfOutputs(calls, x, values, probeIndex, random);
-  for (let i = 0; i < noise.length; i++) noise[i] = Math.max(noise[i], Number.isFinite(repeated[i]) ? Math.abs(repeated[i] - values[i]) : Math.abs(values[i]));
+  const floor = roundingFloor(analytic, x);
+  for (let i = 0; i < noise.length; i++) noise[i] = Math.max(noise[i], floor[i] ?? 0, Number.isFinite(repeated[i]) ? Math.abs(repeated[i] - values[i]) : Math.abs(values[i]));
   const largest = Math.max(...values.map(Math.abs), ...noise);
   const relativeNoise = Math.max(...noise) / Math.max(largest, Number.MIN_VALUE);
   const relativeStep = Math.min(largestInitialStep, Math.max(smallestInitialStep, 4 * Math.pow(relativeNoise, 1 / 5)));
@@ -137,6 +138,20 @@ export function checkMatrixProbe(
   return outcome;
 }
 
+/**
+ * The least noise an output carries: the rounding of its terms, 2⁻⁵²·Σⱼ |Aᵢⱼ|·max(|xⱼ|, 1). An output
+ * flat along the noise direction (or 0 at the probe) shows none in the Moré–Wild table, yet its
+ * values along a coordinate still carry the rounding of the terms that cancel there.
+ */
+function roundingFloor(analytic: AnalyticMatrix, x: Float64Array): Float64Array {
+  const dense = analytic.dense;
+  const floor = new Float64Array(dense ? dense.rows : 0);
+  // Products alone give no terms: the measured noise stands (an empty floor reads as 0).
+  if (!dense) return floor;
+  for (let i = 0; i < dense.rows; i++) for (let j = 0; j < dense.columns; j++) floor[i] += Math.abs(dense.values[i * dense.columns + j]) * Math.max(Math.abs(x[j]), 1);
+  return floor.map((sum) => 2 ** -52 * sum);
+}
+
 /** The Moré–Wild noise of every output along one seeded ±max(|xᵢ|, 1) direction, sharing the evaluations. */
 function noiseOfOutputs(calls: UserCalls, x: Float64Array, values: Float64Array, probeIndex: number, random: Random): Float64Array {
   const direction = x.map((xi) => (random.uniform() < 0.5 ? -1 : 1) * Math.max(Math.abs(xi), 1));
@@ -170,8 +185,17 @@ interface OutputCheck {
 function checkOutputs(context: MatrixProbeContext, direction: Float64Array, step: number, analytic: Float64Array, roundoff: ArrayLike<number>, sizes: ArrayLike<number>, unit: number): OutputCheck[] {
   const slice = sliceOf(context.calls, context.x, direction, { probeIndex: context.probeIndex, point: 'a finite-difference point' });
   return [...context.values.keys()].map((i) =>
-    checkSlice((t) => slice(t)[i], context.values[i], step, analytic[i], { roundoffScale: roundoff[i], unit, size: sizes[i] }, { ...defaultDifferenceSettings, noise: context.noise[i] }),
+    checkSlice((t) => slice(t)[i], context.values[i], step, analytic[i], { roundoffScale: roundoff[i], unit, size: sizes[i] }, { ...defaultDifferenceSettings, noise: context.noise[i], valueScale: valueScaleOf(context, i) }),
   );
+}
+
+/**
+ * What output i's noise is relative to: |Fᵢ(x)|, or, for an output near 0 at the probe (a residual
+ * at its fit, one cancelled by symmetry), the size at which its measured noise is rounding, so
+ * its noise is not taken to grow a trillionfold as it leaves 0 (common practice).
+ */
+function valueScaleOf(context: MatrixProbeContext, i: number): number {
+  return Math.max(Math.abs(context.values[i]), context.noise[i] / 2 ** -52);
 }
 
 /** max(|xⱼ|, 1): steps and sizes are relative to the point's coordinates. */
