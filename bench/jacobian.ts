@@ -118,6 +118,8 @@ function isTrueOf(d: MatrixDiagnosis, J: Matrix, W: Matrix): boolean {
     case 'columnFactor': return everyEntry((i, j) => factorOf(d.columns, j) * J[i][j]);
     case 'rowFactor': return everyEntry((i, j) => factorOf(d.rows, i) * J[i][j]);
     case 'diagonalFactor': return everyEntry((i, j) => (i === j ? d.factor : 1) * J[i][j]);
+    case 'diagonalOffset': return everyEntry((i, j) => J[i][j] + (i === j ? d.offset : 0));
+    case 'oneSided': return everyEntry((i, j) => (i !== j && (d.side === null || (d.side === 'lower' ? i > j : i < j)) && close(W[j][i], J[j][i]) ? null : J[i][j]));
     case 'entry': return everyEntry((i, j) => (i === d.row && j === d.column ? null : J[i][j]));
     case 'columns': return everyEntry((i, j) => (d.columns.includes(j) ? null : J[i][j]));
     case 'rows': return everyEntry((i, j) => (d.rows.includes(i) ? null : J[i][j]));

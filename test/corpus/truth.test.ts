@@ -7,6 +7,7 @@ import * as path from 'node:path';
 import { test } from 'node:test';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { hessians, type ExactDerivatives } from './hessians/index';
+import { tagNames } from '../../server/src/discovery/conventions';
 import { corpusDir, type Truth, type TruthTarget } from '../support/corpus';
 import { repoRoot } from '../support/paths';
 
@@ -129,7 +130,7 @@ test('every module of the corpus has a truth file', () => {
 });
 
 test('the tagged flag says whether the module uses the product\'s JSDoc tags', () => {
-  const tag = /@(gradientOf|valueAndGradient|probe|dimension|learningRateFor|data)\b/;
+  const tag = new RegExp(`@(${Object.values(tagNames).join('|')})\\b`);
   for (const { file, module, truth } of truths) {
     if (!module) continue;
     assert.equal(tag.test(readFileSync(module, 'utf8')), truth.tagged, rel(file));

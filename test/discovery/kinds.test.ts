@@ -62,8 +62,8 @@ test('a Hessian and a Hessian-vector product attach to the gradient of their pai
   );
   assert.deepEqual(kinds(text), [
     ['gradient', 'energy', 'energyGrad', 'energy'],
-    ['hessianVectorProduct', 'energyGrad', 'energyHvp', 'energyHvp'],
     ['hessian', 'energyGrad', 'energyHessian', 'energyHessian'],
+    ['hessianVectorProduct', 'energyGrad', 'energyHvp', 'energyHvp'],
   ]);
 });
 

@@ -14,10 +14,11 @@ type HessianMutant = (H: number[][], x: number[]) => unknown;
 const withHessian = moreGarbowHillstromSet.filter((p) => p.hessian && p.start.length <= 64);
 
 function checkHessian(p: TestProblem, mutate: HessianMutant = (H) => H, probes: number[][] = [p.start]): PairReport {
+  // With the curvature asked for, as the hover asks.
   return checkByKind.hessian(
     { objective: (x) => p.g(x as number[]), gradient: (x) => mutate(p.hessian!(x as number[]).map((row) => row.slice()), x as number[]), makeVector: makeArray },
     probes,
-    { dimension: null, learningRate: null, options: defaultCheckOptions },
+    { dimension: null, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } },
   );
 }
 
@@ -103,7 +104,7 @@ describe('least-squares figures of a Jacobian that holds', () => {
     test(`${prefix}: σmax(J)² and cond(JᵀJ) agree with ml-matrix's SVD of J at x0`, () => {
       const p = moreGarbowHillstromSet.find((q) => q.name.startsWith(prefix))!;
       const model = p.residuals!;
-      const report = checkByKind.jacobian({ objective: (x) => model(x as number[]).r, gradient: (x) => model(x as number[]).J, makeVector: makeArray }, [p.start], { dimension: null, learningRate: null, options: defaultCheckOptions });
+      const report = checkByKind.jacobian({ objective: (x) => model(x as number[]).r, gradient: (x) => model(x as number[]).J, makeVector: makeArray }, [p.start], { dimension: null, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } });
       assert.equal(report.status, 'pass', report.findings.map((f) => f.message).join('\n'));
       const sigma = new SingularValueDecomposition(new Matrix(model(p.start).J)).diagonal;
       const figures = report.matrix!.leastSquares!;
@@ -115,4 +116,28 @@ describe('least-squares figures of a Jacobian that holds', () => {
       assert.ok(Math.abs(report.smoothness!.safeStep - 1 / largest) <= 1e-9 / largest);
     });
   }
+});
+
+describe('what a wrong Hessian looks like, named', () => {
+  const wood = withHessian.find((p) => p.name.startsWith('Wood'))!;
+
+  test('a ridge term λ·I missing from the diagonal', () => {
+    const report = checkHessian(wood, (H) => H.map((row, i) => row.map((h, j) => (i === j ? h - 0.1 : h))));
+    assert.ok(report.matrix?.diagnosis?.kind === 'diagonalOffset' && Math.abs(report.matrix.diagnosis.offset + 0.1) < 1e-6);
+    assert.match(report.findings.find((f) => f.code === 'hessian-mismatch')!.message, /the diagonal alone is off, every entry by -0\.1/);
+  });
+
+  test('the lower triangle left at zero, the upper right: terms added on one side only, and asymmetric', () => {
+    const report = checkHessian(wood, (H) => H.map((row, i) => row.map((h, j) => (i > j ? 0 : h))));
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'oneSided', side: 'lower' });
+    assert.match(report.findings.find((f) => f.code === 'hessian-mismatch')!.message, /every wrong entry's mirror image is right \(all below the diagonal\)/);
+    assert.ok(report.findings.some((f) => f.code === 'hessian-not-symmetric'));
+  });
+
+  test('without a rate or a request, a Hessian that holds adds no step size; the hover asks for it', () => {
+    const quiet = checkByKind.hessian({ objective: (x) => wood.g(x as number[]), gradient: (x) => wood.hessian!(x as number[]), makeVector: makeArray }, [wood.start], { dimension: null, learningRate: null, options: defaultCheckOptions });
+    assert.equal(quiet.status, 'pass');
+    assert.equal(quiet.smoothness, null);
+    assert.ok(checkHessian(wood).smoothness!.lipschitz > 0);
+  });
 });

@@ -78,6 +78,35 @@ describe('a client that declares nothing and sends no settings', () => {
   });
 });
 
+describe('a Jacobian and a Hessian through the built server', () => {
+  test('the demo sonde: the Jacobian squiggle names its entries, the misfit gets the Jᵀr note; the raft Hessian its asymmetry', async () => {
+    const client = await startClient({ capabilities: fullCapabilities });
+    const sonde = demo('sonde.ts');
+    const published = client.nextDiagnostics(pathToUri(sonde));
+    const { uri, text } = client.open(sonde);
+    const { diagnostics } = await published;
+    // fixtures/demo/expected.json: the fouling column of sondeJacobian lacks its factor day.
+    assert.deepEqual(codes(diagnostics), ['jacobian-mismatch', 'least-squares-inconsistent']);
+    const jacobian = diagnostics.find((d) => d.code === 'jacobian-mismatch')!;
+    assert.deepEqual(jacobian.range, rangeOf(text, 'sondeJacobian'));
+    assert.match(messageOf(jacobian), /^sondeJacobian disagrees with central differences of sondeResiduals at probe 1: column 1 wrong, not by one constant factor .* J\[0\]\[1\]: analytic/);
+    assert.deepEqual(jacobian.relatedInformation?.map((r) => r.message), ['residual function sondeResiduals']);
+    const note = diagnostics.find((d) => d.code === 'least-squares-inconsistent')!;
+    assert.equal(note.severity, 3);
+    assert.deepEqual(note.range, rangeOf(text, 'sondeMisfitGrad'));
+    const hover = await client.request<Hover>('textDocument/hover', { textDocument: { uri }, position: rangeOf(text, 'sondeJacobian').start });
+    assert.match(JSON.stringify(hover.contents), /Jacobian wrong: column 1 wrong/);
+
+    const raft = demo('raft.ts');
+    const raftPublished = client.nextDiagnostics(pathToUri(raft));
+    const opened = client.open(raft);
+    const raftDiagnostics = (await raftPublished).diagnostics;
+    assert.deepEqual(codes(raftDiagnostics), ['hessian-mismatch', 'hessian-not-symmetric']);
+    for (const d of raftDiagnostics) assert.deepEqual(d.range, rangeOf(opened.text, 'raftEnergyHessian'));
+    assert.match(messageOf(raftDiagnostics.find((d) => d.code === 'hessian-mismatch')!), /one entry wrong, H\[1\]\[0\]/);
+  });
+});
+
 describe('a full client', () => {
   test('rate diagnostic with related information, hover with the safe step, and the safe-rate fix re-checked', async () => {
     const client = await startClient({ capabilities: fullCapabilities });

@@ -14,15 +14,17 @@ export interface CliArguments {
 
 export const usage = `Usage: slopecheck [--format text|json|sarif] [--seed N] [--timeout-ms N] [--smoothness] <files or folders...>
 
-Checks every exported objective/gradient pair in the given .ts and .js files
-(folders are searched recursively, node_modules skipped). Checking a file runs
-its code in a sandbox process.
+Checks the objective/gradient pairs, residual/Jacobian pairs, Hessians and
+Hessian-vector products of the given .ts and .js files (module-level functions,
+exported or not, and methods of module-level objects; folders are searched
+recursively, node_modules skipped). Checking a file runs its code in a sandbox
+process.
 
   --format      text (default), json or sarif; json and sarif go to stdout alone
   --seed        seed of the random probes and directions (default 1)
   --timeout-ms  time budget for checking one pair, in milliseconds (default ${defaultSettings.timeoutMs})
-  --smoothness  estimate L̂ and the safe step 1/L̂ for every passing pair; without it,
-                only pairs with a declared learning rate get them
+  --smoothness  estimate L̂ and the safe step 1/L̂ for every passing target; without it,
+                only targets with a declared learning rate get them
   --help        show this text
 
 Exit status: 0 no error-level finding, 1 at least one, 2 usage error or unreadable input.`;

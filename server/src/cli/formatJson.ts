@@ -3,6 +3,8 @@
 // It goes to a terminal too: printableLines escapes, inside strings, the control and
 // bidi characters JSON.stringify leaves raw (C1, U+202E), so the document parses the same.
 import { findingLine } from '../check/checkDocument';
+import { anchorOf } from '../discovery/pairing';
+import type { NamedSpan } from '../discovery/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
 import { documentNamespace } from '../discovery/importerCalls';
@@ -13,14 +15,14 @@ export function formatJson(outcomes: FileOutcome[], meta: { version: string; see
   const files = outcomes.map((outcome) => ({
     path: outcome.path,
     ...(outcome.error ? { error: outcome.error } : {}),
-    skipped: (outcome.check?.skipped ?? []).map((pair) => pair.objective.name),
+    skipped: (outcome.check?.skipped ?? []).map((pair) => pair.key),
     findings: (outcome.check?.fileFindings ?? []).map((f) => ({ code: f.code, severity: f.severity, message: f.message, line: f.span.line })),
     pairs: (outcome.check?.pairs ?? []).map(({ pair, report, console }) => ({
       kind: pair.kind,
       objective: pair.objective.name,
       gradient: pair.gradient?.name ?? pair.objective.name,
       combined: pair.gradient === null,
-      line: pair.objective.nameSpan.line,
+      line: anchorOf<NamedSpan>(pair).nameSpan.line,
       call: describeCall(pair.plan, documentNamespace),
       dataFrom: pair.entry ? { path: pair.entry.fileName, line: pair.entry.line } : null,
       status: report.status,

@@ -1,6 +1,8 @@
 // The human-readable table of `slopecheck` (the default format). Every text that comes
 // from the user's files or code goes through printableLine: a terminal must not obey it.
 import { findingLine } from '../check/checkDocument';
+import { anchorOf } from '../discovery/pairing';
+import type { NamedSpan } from '../discovery/types';
 import type { Finding, Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
@@ -21,14 +23,14 @@ export function formatText(outcomes: FileOutcome[]): string {
     }
     const check = outcome.check!;
     for (const f of check.fileFindings) out.push(`  ${findingText(f, f.span.line)}`);
-    for (const pair of check.skipped) out.push(`  skipped  line ${pair.objective.nameSpan.line}  ${shown(pair.objective.name)} (// slopecheck-skip)`);
+    for (const pair of check.skipped) out.push(`  skipped  line ${anchorOf<NamedSpan>(pair).nameSpan.line}  ${shown(pair.key)} (// slopecheck-skip)`);
     if (check.pairs.length === 0) {
       if (check.skipped.length === 0) out.push('  no function/derivative pairs found');
       out.push('');
       continue;
     }
     const rows = check.pairs.map(({ pair, report }) => [
-      String(pair.objective.nameSpan.line),
+      String(anchorOf<NamedSpan>(pair).nameSpan.line),
       pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (${functionWords(pair.kind).value} and ${functionWords(pair.kind).derivative})`,
       verdictOf(report),
       sci(report.maxRelError),

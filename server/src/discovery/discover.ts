@@ -3,13 +3,13 @@
 // and the learning rate to judge. Parses the text as given (an unsaved buffer works) and
 // never reads the disk or runs user code.
 import * as ts from 'typescript';
-import type { CallRecipe, Finding, TargetKind } from '../engine/types';
+import type { CallRecipe, Finding } from '../engine/types';
 import { collectCallables, type Callable } from './callables';
 import { collectBindings, type ModuleBindings } from './exports';
 import type { SourceText } from './importers';
 import { readInvocation } from './invocation';
 import { assignLearningRates, planRate } from './learningRate';
-import { matchPairs, type PairMatch } from './pairing';
+import { anchorOf, matchPairs, type PairMatch } from './pairing';
 import { readProbeTags, settleDimension } from './probes';
 import { returnedExpressions } from './returns';
 import { hasSkipDirective } from './skip';
@@ -91,15 +91,6 @@ function describePair(
     },
     findings,
   };
-}
-
-/**
- * The function a target is known by (a match's Callable, a discovered target's span): the
- * objective of a gradient pair, the derivative of the other kinds (one gradient may carry both a
- * Hessian and a product). Its name is the target's key, and a skip comment goes above it.
- */
-export function anchorOf<Function>(target: { kind: TargetKind; objective: Function; gradient: Function | null }): Function {
-  return target.kind === 'gradient' || !target.gradient ? target.objective : target.gradient;
 }
 
 /**

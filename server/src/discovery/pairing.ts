@@ -30,6 +30,16 @@ export interface PairMatch {
 
 type FileFinding = DiscoveryResult['fileFindings'][number];
 
+/**
+ * The function a target is known by (a match's Callable, a discovered target's span): the
+ * objective of a gradient pair, the derivative of the other kinds (one gradient may carry both a
+ * Hessian and a product). Its name is the target's key, its line the target's line, and a skip
+ * comment goes above it.
+ */
+export function anchorOf<Function>(target: { kind: TargetKind; objective: Function; gradient: Function | null }): Function {
+  return target.kind === 'gradient' || !target.gradient ? target.objective : target.gradient;
+}
+
 /** The functions of a pair: the objective, then its derivative when it has one of its own. */
 export function pairFunctions(match: PairMatch): Callable[] {
   return match.gradient ? [match.objective, match.gradient] : [match.objective];
@@ -45,7 +55,7 @@ export function matchPairs(sourceFile: ts.SourceFile, groups: CallableGroup[], t
   const matches: PairMatch[] = [];
   const fileFindings: FileFinding[] = [];
   for (const group of groups) matchGroup(sourceFile, group, types, matches, fileFindings);
-  matches.sort((a, b) => a.objective.nameNode.pos - b.objective.nameNode.pos);
+  matches.sort((a, b) => anchorOf(a).nameNode.pos - anchorOf(b).nameNode.pos);
   return { matches, fileFindings };
 }
 

@@ -35,7 +35,7 @@ export function diagnoseMatrix(rows: number, columns: number, entries: EntryChec
   // One wrong entry is named as such, whatever else it could be read as (the only nonzero of its column, say).
   if (wrong.length === 1) return { kind: 'entry', row: wrong[0].row, column: wrong[0].column };
   if (complete && entries.length === rows * columns) {
-    const shape = transposed(table) ?? rowShift(table) ?? columnSwap(table, wrong) ?? factors(table, wrong);
+    const shape = transposed(table) ?? rowShift(table) ?? columnSwap(table, wrong) ?? factors(table, wrong) ?? diagonalOffset(table, wrong) ?? oneSided(table, wrong);
     if (shape) return shape;
   }
   const wrongColumns = [...new Set(wrong.map((e) => e.column))].sort((a, b) => a - b);
@@ -138,6 +138,21 @@ function factors(table: Table, wrong: EntryCheck[]): MatrixDiagnosis | null {
   const rows = lineFactors('row');
   if (rows && rows.length < table.rows) return { kind: 'rowFactor', rows };
   return null;
+}
+
+/** Only the diagonal is wrong, every entry by one offset: a λ·I term (a ridge, a damping) missing or extra. */
+function diagonalOffset(table: Table, wrong: EntryCheck[]): MatrixDiagnosis | null {
+  if (table.rows !== table.columns || wrong.length < 2 || !wrong.every((e) => e.row === e.column)) return null;
+  const diagonal = Array.from({ length: table.rows }, (_, i) => table.at(i, i)!);
+  const offset = diagonal.reduce((sum, e) => sum + (e.analytic - e.numerical), 0) / diagonal.length;
+  return diagonal.every((e) => near(e.analytic, e.numerical + offset, e.errorBound)) ? { kind: 'diagonalOffset', offset } : null;
+}
+
+/** Every wrong entry is off the diagonal and its mirror image is right: a term added at (a, b) and not at (b, a). */
+function oneSided(table: Table, wrong: EntryCheck[]): MatrixDiagnosis | null {
+  if (table.rows !== table.columns || !wrong.every((e) => e.row !== e.column && !table.at(e.column, e.row)!.mismatch)) return null;
+  const side = wrong.every((e) => e.row > e.column) ? 'lower' : wrong.every((e) => e.row < e.column) ? 'upper' : null;
+  return { kind: 'oneSided', side };
 }
 
 /** c ≠ 1 with analytic ≈ c·numerical for every entry given, or null. */

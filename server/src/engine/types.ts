@@ -344,6 +344,13 @@ export type MatrixDiagnosis =
   | { kind: 'rowFactor'; rows: Array<{ index: number; factor: number }> }
   /** Only the diagonal is wrong, by a common factor (a doubled diagonal). */
   | { kind: 'diagonalFactor'; factor: number }
+  /** Only the diagonal is wrong, by a common offset: analytic − true = offset (a λ·I term missing or extra). */
+  | { kind: 'diagonalOffset'; offset: number }
+  /**
+   * Every wrong entry is off the diagonal and its mirror image is right: terms added on one side of
+   * the diagonal only (all below it, all above it, or null: some below and some above).
+   */
+  | { kind: 'oneSided'; side: 'lower' | 'upper' | null }
   | { kind: 'entry'; row: number; column: number }
   /** Every wrong entry lies in these few columns (or rows), not by one factor: a chain-rule factor that varies along them. */
   | { kind: 'columns'; columns: number[] }

@@ -70,7 +70,11 @@ function capitalised(text: string): string {
 /** The shape of a wrong Jacobian or Hessian in a few words; rows are outputs, columns coordinates. */
 export function describeMatrixDiagnosis(diagnosis: MatrixDiagnosis | null, wording: KindWording): string {
   if (!diagnosis) return 'wrong';
-  const factorWords = (factor: number) => (factor === -1 ? 'has the wrong sign' : `is ${shortNumber(factor, 6)}× the true one`);
+  const factorWords = (factor: number) => {
+    if (factor === -1) return 'has the wrong sign';
+    const size = Math.abs(factor) >= 1 ? `${shortNumber(Math.abs(factor), 4)}× too large` : `${shortNumber(1 / Math.abs(factor), 4)}× too small`;
+    return factor < 0 ? `has the wrong sign and is ${size}` : `is ${size}`;
+  };
   switch (diagnosis.kind) {
     case 'transposed':
       return 'transposed (row i holds the derivatives along coordinate i)';
@@ -83,9 +87,13 @@ export function describeMatrixDiagnosis(diagnosis: MatrixDiagnosis | null, wordi
     case 'columnFactor':
       return diagnosis.columns.map((c) => `column ${c.index} ${factorWords(c.factor)}`).join('; ');
     case 'rowFactor':
-      return diagnosis.rows.map((r) => `row ${r.index} (${wording.output} ${r.index}) ${factorWords(r.factor)}`).join('; ');
+      return diagnosis.rows.map((r) => `row ${r.index} ${factorWords(r.factor)}`).join('; ');
     case 'diagonalFactor':
       return `the diagonal alone is wrong: ${shortNumber(diagnosis.factor, 6)}× the true one`;
+    case 'diagonalOffset':
+      return `the diagonal alone is off, every entry by ${shortNumber(diagnosis.offset, 4)} (a term λ·I, such as a ridge or damping, missing or extra)`;
+    case 'oneSided':
+      return `every wrong entry's mirror image is right${diagnosis.side ? ` (all ${diagnosis.side === 'lower' ? 'below' : 'above'} the diagonal)` : ''}: terms added at [i][j] and not at [j][i]`;
     case 'entry':
       return `one entry wrong, ${wording.entry(diagnosis.row, diagnosis.column)}`;
     case 'columns':

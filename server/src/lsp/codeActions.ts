@@ -3,7 +3,7 @@
 import { CodeActionKind, type CodeAction, type Diagnostic, type Position, type TextEdit } from 'vscode-languageserver';
 import type { PairOutcome } from '../check/checkDocument';
 import { skipDirective } from '../discovery/conventions';
-import { anchorOf } from '../discovery/discover';
+import { anchorOf } from '../discovery/pairing';
 import type { DiscoveredPair, NamedSpan } from '../discovery/types';
 import type { FindingCode } from '../engine/types';
 import { diagnosticSource, type DiagnosticData } from './diagnostics';

@@ -8,6 +8,8 @@ import { TextDocument } from 'vscode-languageserver-textdocument';
 import type { WorkspaceContext } from '../check/checkDocument';
 import { CachedRunner } from '../check/runCache';
 import { discoverPairs } from '../discovery/discover';
+import { anchorOf } from '../discovery/pairing';
+import type { NamedSpan } from '../discovery/types';
 import { isInside } from '../sandbox/confine';
 import { SandboxPool } from '../sandbox/pool';
 import { productVersion, sandboxScriptPath } from '../shared/productInfo';
@@ -170,7 +172,7 @@ export function startServer(connection: Connection): void {
     return pairsOf(document).map((pair) => ({
       objective: pair.key,
       gradient: pair.gradient?.name ?? null,
-      line: pair.objective.nameSpan.startLine,
+      line: anchorOf<NamedSpan>(pair).nameSpan.startLine,
       status: checks.outcome(uri, pair.key)?.report.status ?? 'pending',
     }));
   });
@@ -184,7 +186,7 @@ export function startServer(connection: Connection): void {
       uri,
       objective,
       gradient: outcome.pair.gradient?.name ?? null,
-      line: outcome.pair.objective.nameSpan.startLine,
+      line: anchorOf<NamedSpan>(outcome.pair).nameSpan.startLine,
       report: outcome.report,
       console: outcome.console,
       settings: { seed: current.seed, timeoutMs: current.timeoutMs, probeCount: current.probeCount },

@@ -195,6 +195,8 @@ const matrixDiagnosisOfKind: { [K in MatrixDiagnosis['kind']]: Reader<Extract<Ma
   columnFactor: objectOf({ kind: oneOf(['columnFactor']), columns: listOf(indexFactor, reportLimits.numbers) }, {}),
   rowFactor: objectOf({ kind: oneOf(['rowFactor']), rows: listOf(indexFactor, reportLimits.numbers) }, {}),
   diagonalFactor: objectOf({ kind: oneOf(['diagonalFactor']), factor: measurement }, {}),
+  diagonalOffset: objectOf({ kind: oneOf(['diagonalOffset']), offset: measurement }, {}),
+  oneSided: objectOf({ kind: oneOf(['oneSided']), side: nullOr(oneOf(['lower', 'upper'] as const)) }, {}),
   entry: objectOf({ kind: oneOf(['entry']), row: count, column: count }, {}),
   region: objectOf({ kind: oneOf(['region']), rows: countPair, columns: countPair }, {}),
   columns: objectOf({ kind: oneOf(['columns']), columns: indices }, {}),

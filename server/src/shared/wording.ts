@@ -29,8 +29,9 @@ export function describeCall(plan: Pick<CheckPlan, 'recipe' | 'kind'>, namespace
   const host = recipe.host ? (recipe.host.construct ? `new ${plain(recipe.host.key)}()` : plain(recipe.host.key)) : null;
   const data = recipe.extraArguments.map((a) => a ?? '(default)');
   const call = (fn: string, direction: string[] = []) => `${host ? `${host}.` : ''}${plain(fn)}(${['x', ...direction, ...data].join(', ')})`;
-  const words = kindWording[plan.kind ?? 'gradient'];
-  if (recipe.split) return `${call(recipe.value)}: ${words.value} [${JSON.stringify(recipe.split.value)}], ${words.derivative} [${JSON.stringify(recipe.split.derivative)}]`;
+  // One result holding both: `lossAndGrad(x).loss and .grad`, `residualsAndJacobian(x)[0] and [1]`.
+  const member = (key: string) => (/^\d+$/.test(key) ? `[${key}]` : /^[A-Za-z_$][\w$]*$/.test(key) ? `.${key}` : `[${JSON.stringify(key)}]`);
+  if (recipe.split) return `${call(recipe.value)}${member(recipe.split.value)} and ${member(recipe.split.derivative)}`;
   // A Hessian-vector product takes its direction after the point.
   return recipe.derivative === null ? call(recipe.value) : `${call(recipe.value)} and ${call(recipe.derivative, plan.kind === 'hessianVectorProduct' ? ['v'] : [])}`;
 }

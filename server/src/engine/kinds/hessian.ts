@@ -56,7 +56,7 @@ export function largestAsymmetry(h: DenseMatrix): MatrixSummary['asymmetry'] | n
 
 function asymmetryFinding(asymmetry: NonNullable<MatrixSummary['asymmetry']>, probeIndex: number): Finding {
   const { row, column } = asymmetry;
-  const finding = makeFinding('hessian-not-symmetric', 'gradient', `the Hessian is not symmetric at probe ${probeIndex + 1}: H[${row}][${column}] and H[${column}][${row}] differ by ${asymmetry.gap.toPrecision(3)} (${(asymmetry.gap / asymmetry.scale).toPrecision(2)} of the larger); a Hessian of a smooth function is symmetric, so at least one of them is wrong`, { probeIndex, point: 'the probe' });
+  const finding = makeFinding('hessian-not-symmetric', 'gradient', `the Hessian is not symmetric at probe ${probeIndex + 1}: H[${row}][${column}] and H[${column}][${row}] differ by ${asymmetry.gap.toPrecision(3)} (${Math.round((100 * asymmetry.gap) / asymmetry.scale)} % of the larger); a Hessian of a smooth function is symmetric, so at least one of them is wrong`, { probeIndex, point: 'the probe' });
   finding.entries = [[row, column], [column, row]];
   return finding;
 }

@@ -7,9 +7,14 @@ import { reviewLearningRate } from '../stepSize';
 import { symmetricEigenvalues } from '../symmetricEigen';
 import type { PairReport, ProbeReport } from '../types';
 
-/** Eigenvalues of the symmetric matrix, recorded on the probe and turned into L̂, μ̂ and step sizes. */
+/**
+ * Eigenvalues of the symmetric matrix; recorded on the probe and turned into L̂, μ̂ and step sizes
+ * when they are asked for, as for a gradient: a declared rate, the hover or the report (a Newton
+ * solve has no use for a gradient-descent step it did not ask about).
+ */
 export function smoothnessFromMatrix(values: ArrayLike<number>, n: number, probe: ProbeReport, report: PairReport, plan: PairPlan): number[] {
   const eigenvalues = symmetricEigenvalues(values, n);
+  if (!(plan.learningRate || plan.options.smoothness || plan.options.plots)) return eigenvalues;
   probe.smoothness = { lambdaMax: eigenvalues[n - 1], lambdaMin: eigenvalues[0], ritzValues: eigenvalues, secantMax: 0, hessianVectorProducts: 0 };
   report.smoothness = smoothnessOf(probe.smoothness);
   if (report.smoothness && plan.learningRate) {
