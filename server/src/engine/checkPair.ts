@@ -1,17 +1,16 @@
 // Entry point of the numeric engine: the whole check plan for one pair.
-import { emptyReport } from './emptyReport';
 import { undecidedWording } from './decision';
 import { formatBound, formatList } from './format';
 import { defaultDifferenceSettings } from './differences';
 import { buildStepStudy, carriedNoise, checkProbe, type ProbeOutcome, type ProbeWork } from './probeCheck';
 import type { ProbeContext } from './probeContext';
 import { createRandom } from './random';
-import { probesAroundStart } from './startProbes';
 import { compareWithResiduals } from './leastSquaresForm';
 import { probeSmoothness, smoothnessOf } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
-import { defaultCheckOptions, type CheckOptions, type CheckPlan, type Finding, type PairReport, type UndecidedReason, type Vector } from './types';
-import { BudgetSpent, CheckStopped, createUserCalls, describeThrown, makeFinding, type UserCalls } from './userCalls';
+import { budgetFinding, runTarget } from './targetRun';
+import type { CheckOptions, CheckPlan, Finding, PairReport, UndecidedReason, Vector } from './types';
+import { BudgetSpent, type UserCalls } from './userCalls';
 
 /** The user's functions as the engine sees them; the sandbox builds these. */
 export interface PairFunctions {
@@ -32,7 +31,7 @@ export type PairPlan = Pick<CheckPlan, 'dimension' | 'learningRate' | 'options'>
 };
 
 // Independent seeded streams, so one probe's choices do not shift another's.
-const streams = { probes: 1, noise: 1000, directions: 2000, smoothness: 3000 };
+const streams = { noise: 1000, directions: 2000, smoothness: 3000 };
 
 /**
  * Runs the full check of one pair: gradient check at each probe, smoothness
@@ -41,74 +40,12 @@ const streams = { probes: 1, noise: 1000, directions: 2000, smoothness: 3000 };
  * `probes` may be empty when `plan.dimension` is known: seeded random probes are drawn.
  */
 export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan, clock: () => number = Date.now): PairReport {
-  const started = readClock(clock);
-  const report: PairReport = emptyReport('pass');
-  let calls: UserCalls | null = null;
-  try {
-    const options: CheckOptions = { ...defaultCheckOptions, ...(plan && plan.options) };
-    const points = probePoints(probes, plan, options, report);
-    if (points !== null) {
-      calls = createUserCalls(fns, points[0].length, { clock: () => readClock(clock), endsAt: plan.endsAt ?? null });
-      const first = runChecks(calls, points, plan, options, report);
-      if (first && fns.residuals) compareWithResiduals(fns.residuals, first, { clock: () => readClock(clock), endsAt: plan.endsAt ?? null }, report);
-    }
-  } catch (err) {
-    report.status = 'error';
-    if (err instanceof CheckStopped) report.findings.push(err.finding);
-    else report.findings.push(makeFinding('runtime-error', 'objective', `the check itself failed unexpectedly: ${describeThrown(err).text}`));
-  }
-  if (calls !== null) {
-    report.findings.push(...calls.warnings);
-    report.evaluations = { objective: calls.counts.objective, gradient: calls.counts.gradient };
-  }
-  report.elapsedMs = Math.max(0, readClock(clock) - started);
-  return report;
+  return runTarget('gradient', fns, probes, plan, clock, null, (calls, points, options, report, budget) => {
+    const first = runChecks(calls, points, plan, options, report);
+    if (first && fns.residuals) compareWithResiduals(fns.residuals, first, budget, report);
+  });
 }
 
-/**
- * Given probes; else the user's start with perturbations around it; else seeded
- * standard-normal points when only the dimension is known.
- */
-export function probePoints(probes: number[][], plan: PairPlan, options: CheckOptions, report: PairReport): Float64Array[] | null {
-  const bad = (message: string) => {
-    report.status = 'error';
-    report.findings.push({ code: 'bad-probe', severity: 'error', subject: 'probe', message });
-    return null;
-  };
-  if (Array.isArray(probes) && probes.length > 0) {
-    const n = probes[0].length;
-    if (!(n > 0)) return bad('probe 1 has no coordinates');
-    for (let p = 0; p < probes.length; p++) {
-      if (probes[p].length !== n) return bad(`probe ${p + 1} has ${probes[p].length} coordinates but probe 1 has ${n}`);
-      if (!probes[p].every((v) => typeof v === 'number' && Number.isFinite(v))) return bad(`probe ${p + 1} has a coordinate that is not a finite number`);
-    }
-    report.dimension = n;
-    return probes.map((probe) => Float64Array.from(probe));
-  }
-  const random = createRandom(options.seed, streams.probes);
-  const start = plan && plan.startPoint;
-  if (Array.isArray(start) && start.length > 0) {
-    if (typeof plan.dimension === 'number' && start.length !== plan.dimension) {
-      return bad(`the starting point has ${start.length} coordinates but the objective takes ${plan.dimension}`);
-    }
-    report.dimension = start.length;
-    return probesAroundStart(Float64Array.from(start), options.probeCount, random);
-  }
-  const n = plan ? plan.dimension : null;
-  if (typeof n !== 'number' || !Number.isInteger(n) || n <= 0) {
-    report.status = 'error';
-    report.findings.push({ code: 'unknown-dimension', severity: 'error', subject: 'objective', message: 'no probe points are given and the dimension is unknown; add a probe point or a fixed-length parameter type' });
-    return null;
-  }
-  report.dimension = n;
-  const points: Float64Array[] = [];
-  for (let p = 0; p < Math.max(1, options.probeCount); p++) {
-    const point = new Float64Array(n);
-    for (let i = 0; i < n; i++) point[i] = random.normal();
-    points.push(point);
-  }
-  return points;
-}
 
 /** Another probe is started only when this many times its expected time is left in the budget. */
 const probeTimeMargin = 1.2;
@@ -317,15 +254,6 @@ function stationaryFinding(stationary: ProbeOutcome[], all: boolean): Finding {
 }
 
 /** The time budget cut the check: what was left undone, with the figures to size the budget. */
-export function budgetFinding(calls: UserCalls, what: string): Finding {
-  const made = calls.made();
-  return {
-    code: 'budget-spent',
-    severity: 'info',
-    subject: 'objective',
-    message: `${what} (${made} calls of the objective and gradient, about ${formatBound(calls.meanCallMs())} ms each); a larger time limit would let the check finish`,
-  };
-}
 
 /**
  * A later probe's work: a spot check of what is still open once an earlier probe settled the
@@ -352,12 +280,4 @@ function confirmedComponents(outcomes: ProbeOutcome[]): Set<number> {
   return confirmed;
 }
 
-export function readClock(clock: () => number): number {
-  try {
-    const now = clock();
-    return typeof now === 'number' && Number.isFinite(now) ? now : 0;
-  } catch {
-    return 0;
-  }
-}
 

@@ -2,14 +2,14 @@
 // Hessian-vector product): probe 1 whole, the other probes as spot checks of what is still
 // open, stopping at the first mismatch, as for a gradient (checkPair.ts). What differs by kind
 // (how the analytic matrix is read, what is added once it holds) comes from a MatrixKind.
-import { budgetFinding, probePoints, readClock, type PairFunctions, type PairPlan } from './checkPair';
+import type { PairFunctions, PairPlan } from './checkPair';
 import { isDecided, undecidedWording } from './decision';
-import { emptyReport } from './emptyReport';
 import { kindWording } from './kindWording';
 import { checkMatrixProbe, type AnalyticMatrix, type MatrixProbeOutcome, type MatrixWork } from './matrixProbe';
 import { createRandom } from './random';
-import { defaultCheckOptions, type CheckOptions, type Finding, type PairReport, type TargetKind } from './types';
-import { BudgetSpent, CheckStopped, createUserCalls, describeThrown, makeFinding, type CallSite, type UserCalls } from './userCalls';
+import { budgetFinding, runTarget } from './targetRun';
+import type { CheckOptions, Finding, PairReport, TargetKind } from './types';
+import { BudgetSpent, makeFinding, type CallSite, type UserCalls } from './userCalls';
 import { matrixMismatchMessage } from './wording';
 
 /** What one matrix kind adds to the shared check. */
@@ -26,32 +26,13 @@ export interface MatrixKind {
   afterCheck?(outcomes: MatrixProbeOutcome[], report: PairReport, plan: PairPlan): void;
 }
 
-const streams = { probes: 1, directions: 2000 };
+// The seeded stream of each probe's random directions, apart from the drawn probes' (targetRun.ts).
+const directionStream = 2000;
 
 /** Never throws: what the user's code does wrong becomes findings. */
 export function checkMatrixTarget(kind: MatrixKind, fns: PairFunctions, probes: number[][], plan: PairPlan, clock: () => number = Date.now): PairReport {
-  const started = readClock(clock);
-  const report: PairReport = emptyReport('pass', [], null, kind.kind);
   const wording = kindWording[kind.kind];
-  let calls: UserCalls | null = null;
-  try {
-    const options: CheckOptions = { ...defaultCheckOptions, ...(plan && plan.options) };
-    const points = probePoints(probes, plan, options, report);
-    if (points !== null) {
-      calls = createUserCalls(fns, points[0].length, { clock: () => readClock(clock), endsAt: plan.endsAt ?? null }, { objective: wording.value, gradient: wording.derivative });
-      runProbes(kind, calls, points, plan, options, report);
-    }
-  } catch (err) {
-    report.status = 'error';
-    if (err instanceof CheckStopped) report.findings.push(err.finding);
-    else report.findings.push(makeFinding('runtime-error', 'objective', `the check itself failed unexpectedly: ${describeThrown(err).text}`));
-  }
-  if (calls !== null) {
-    report.findings.push(...calls.warnings);
-    report.evaluations = { objective: calls.counts.objective, gradient: calls.counts.gradient };
-  }
-  report.elapsedMs = Math.max(0, readClock(clock) - started);
-  return report;
+  return runTarget(kind.kind, fns, probes, plan, clock, { objective: wording.value, gradient: wording.derivative }, (calls, points, options, report) => runProbes(kind, calls, points, plan, options, report));
 }
 
 function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
@@ -63,7 +44,7 @@ function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], p
   let cutShort = false;
   try {
     for (let p = 0; p < points.length && !outcomes.some((o) => o.mismatch || o.cut); p++) {
-      const random = () => createRandom(options.seed, streams.directions + p);
+      const random = () => createRandom(options.seed, directionStream + p);
       const work = p === 0 ? whole : laterWork(outcomes, whole, n);
       let outcome = checkMatrixProbe(calls, points[p], p, analyticAt, () => work, random());
       if ((outcome.mismatch || outcome.kink) && work.mode === 'spot') outcome = checkMatrixProbe(calls, points[p], p, analyticAt, () => whole, random());

@@ -31,6 +31,8 @@ export interface CallSite {
 
 export interface UserCalls {
   readonly dimension: number;
+  /** What messages call the two functions. */
+  readonly roles: CallRoles;
   readonly counts: { objective: number; gradient: number };
   /** f(x); may be non-finite (callers decide what that means). */
   objective(x: Float64Array, site: CallSite): number;
@@ -133,6 +135,7 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
 
   return {
     dimension,
+    roles,
     counts,
     warnings,
     made,
