@@ -110,6 +110,10 @@ function isTrueOf(d: MatrixDiagnosis, J: Matrix, W: Matrix): boolean {
   switch (d.kind) {
     case 'transposed': return J.length === J[0].length && everyEntry((i, j) => J[j][i]);
     case 'rowShift': return everyEntry((i, j) => (J[i + d.shift] ? J[i + d.shift][j] : null));
+    case 'rowSwap': {
+      const partner = new Map(d.pairs.flatMap(([a, b]) => [[a, b], [b, a]]));
+      return everyEntry((i, j) => J[partner.get(i) ?? i][j]);
+    }
     case 'columnSwap': {
       const partner = new Map(d.pairs.flatMap(([a, b]) => [[a, b], [b, a]]));
       return everyEntry((i, j) => J[i][partner.get(j) ?? j]);

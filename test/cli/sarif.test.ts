@@ -34,4 +34,10 @@ test('slopecheck --format sarif over the demo is valid SARIF 2.1.0 with our rule
     assert.match(loc.artifactLocation.uri, /\.ts$/);
   }
   assert.ok(run0.results.some((r: any) => r.ruleId === 'gradient-mismatch' && r.level === 'error'));
+  // The demo's Jacobian and Hessian (fixtures/demo/expected.json): rows of their own, on the derivative's line.
+  const lineOf = (file: string, needle: string) => readFileSync(path.join(fixturesDir, 'demo', 'src', file), 'utf8').split('\n').findIndex((line) => line.includes(needle)) + 1;
+  const at = (ruleId: string, file: string) => run0.results.find((r: any) => r.ruleId === ruleId && r.locations[0].physicalLocation.artifactLocation.uri.endsWith(file));
+  assert.equal(at('jacobian-mismatch', 'sonde.ts')?.locations[0].physicalLocation.region.startLine, lineOf('sonde.ts', 'export function sondeJacobian'));
+  assert.equal(at('hessian-not-symmetric', 'raft.ts')?.locations[0].physicalLocation.region.startLine, lineOf('raft.ts', 'export function raftEnergyHessian'));
+  assert.match(at('jacobian-mismatch', 'sonde.ts').message.text, /column 1 wrong/);
 });

@@ -215,3 +215,59 @@ describe('large Jacobians: random directions, then the wrong columns located', (
     assert.ok(located.coordinateDifferences + located.pooledDifferences < 40, JSON.stringify(located));
   });
 });
+
+describe('a slow residual function within the time budget', () => {
+  // Box three-dimensional (MGH 12) padded to n = 20 with residuals 0.1·(xⱼ − 1) (m = 30): each
+  // residual call costs 50 ms on a clock that the calls advance, so the time is calls × cost.
+  const box = leastSquares.find((p) => p.name.startsWith('box'))!;
+  const n = 20;
+  const padded = (x: ArrayLike<number>) => {
+    const head = box.residuals!(Array.from(x).slice(0, 3));
+    const r = [...head.r, ...Array.from({ length: n - 3 }, (_, k) => 0.1 * (x[k + 3] - 1))];
+    const J = [...head.J.map((row) => [...row, ...new Array(n - 3).fill(0)]), ...Array.from({ length: n - 3 }, (_, k) => Array.from({ length: n }, (__, j) => (j === k + 3 ? 0.1 : 0)))];
+    return { r, J };
+  };
+  const run = (costMs: number, wrong: boolean) => {
+    const clock = { now: 0 };
+    const start = [...box.start, ...new Array(n - 3).fill(0.5)];
+    return checkByKind.jacobian(
+      {
+        objective: (x) => {
+          clock.now += costMs;
+          return padded(x).r;
+        },
+        gradient: (x) => {
+          const { J } = padded(x);
+          if (wrong) J[1][2] *= 1.5;
+          return J;
+        },
+        makeVector: makeArray,
+      },
+      [],
+      { dimension: null, learningRate: null, options: defaultCheckOptions, startPoint: start, endsAt: 10_000 },
+      () => clock.now,
+    );
+  };
+
+  test('50 ms per call: a verdict within 10 s, by random directions when the columns would not fit', () => {
+    const correct = run(50, false);
+    assert.equal(correct.status, 'pass', correct.findings.map((f) => f.message).join('\n'));
+    assert.equal(correct.probes[0].mode, 'directional');
+    const wrong = run(50, true);
+    assert.equal(wrong.status, 'fail', wrong.findings.map((f) => f.message).join('\n'));
+    assert.deepEqual(wrong.findings.find((f) => f.code === 'jacobian-mismatch')?.entries, [[1, 2]]);
+  });
+
+  test('fast calls: every column', () => {
+    const report = run(0.01, false);
+    assert.equal(report.status, 'pass');
+    assert.equal(report.probes[0].mode, 'full');
+  });
+});
+
+test('two residuals written in each other\'s place: rows swapped (Rosenbrock, m = 2)', () => {
+  const rosenbrock = leastSquares.find((p) => p.name.startsWith('Rosenbrock'))!;
+  const report = checkJacobian(rosenbrock, (J) => [J[1], J[0]]);
+  assert.deepEqual(report.matrix?.diagnosis, { kind: 'rowSwap', pairs: [[0, 1]] });
+  assert.match(report.findings.find((f) => f.code === 'jacobian-mismatch')!.message, /rows swapped \(residuals 0 ↔ 1\)/);
+});

@@ -10,6 +10,14 @@ import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from '
 import { errorHeatMap } from './heatMap';
 import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
 
+/** What the eigenvalue plot shows, by kind: Ritz values for a gradient, an exact spectrum for the matrix kinds. */
+const spectrumCaption: Record<PairReport['kind'], string> = {
+  gradient: 'Ritz values of the Lanczos iteration on Hessian-vector products.',
+  jacobian: 'Eigenvalues of JᵀJ at the probe, the Hessian of the Gauss–Newton model of ½‖r‖².',
+  hessian: 'Eigenvalues of the Hessian at the probe.',
+  hessianVectorProduct: 'Ritz values of the Lanczos iteration on Hessian-vector products.',
+};
+
 export const localEstimateCaution =
   'Every smoothness figure (L̂, μ̂, κ̂, 1/L̂, 2/λ⁺) is a local estimate measured near the probe points, not a bound over the whole domain: far from the probes the objective may be much steeper.';
 
@@ -32,7 +40,7 @@ export function renderReport(result: PairReportResult): string {
       ? plotFigure(errorHeatMap(report.kind, report.probes[worst], Math.max(worst, 0)), 'Each cell is one entry: row i an output, column j a coordinate.')
       : plotFigure(gradientPlot(report.probes[worst], Math.max(worst, 0)), worst >= 0 ? `At probe ${worst + 1}, the one with the largest relative error.` : ''),
     plotFigure(stepErrorPlot(studied?.stepStudy), 'The chosen step balances truncation error (large h) against rounding error (small h).'),
-    plotFigure(eigenvaluePlot(report.probes, report.smoothness), 'Ritz values of the Lanczos iteration on Hessian-vector products.'),
+    plotFigure(eigenvaluePlot(report.probes, report.smoothness), spectrumCaption[report.kind]),
     plotFigure(descentPlot(withDescent?.descent), 'Gradient steps w ← w − α∇f(w) from a probe.'),
     '</section>',
     worst >= 0 ? `<section class="components"><h2>Derivatives at probe ${worst + 1}</h2>${componentTable(report, report.probes[worst])}</section>` : '',

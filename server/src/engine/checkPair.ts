@@ -1,14 +1,13 @@
 // Entry point of the numeric engine: the whole check plan for one pair.
 import { undecidedWording } from './decision';
 import { formatBound, formatList } from './format';
-import { defaultDifferenceSettings } from './differences';
 import { buildStepStudy, carriedNoise, checkProbe, type ProbeOutcome, type ProbeWork } from './probeCheck';
 import type { ProbeContext } from './probeContext';
 import { createRandom } from './random';
 import { compareWithResiduals } from './leastSquaresForm';
 import { probeSmoothness, smoothnessOf } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
-import { budgetFinding, runTarget } from './targetRun';
+import { budgetFinding, callsPerDerivative, firstProbeWork, probeTimeMargin, runTarget } from './targetRun';
 import type { CheckOptions, CheckPlan, Finding, PairReport, UndecidedReason, Vector } from './types';
 import { BudgetSpent, type UserCalls } from './userCalls';
 
@@ -47,30 +46,6 @@ export function checkPair(fns: PairFunctions, probes: number[][], plan: PairPlan
 }
 
 
-/** Another probe is started only when this many times its expected time is left in the budget. */
-const probeTimeMargin = 1.2;
-
-/**
- * Calls a smooth slice's difference takes: the tableau's least rows, two calls each. Plans are
- * sized from it and the measured cost of a call.
- */
-const callsPerDerivative = 2 * defaultDifferenceSettings.minLevels;
-/** The first probe's comparison may take this share of the time left; the rest is for the other probes and the curvature. */
-const firstProbeShare = 0.5;
-
-/**
- * The first probe's comparison, from what a call cost there: every component when the dimension
- * allows it (a cap on calls) and the time left does, or when it costs no more than the random
- * directions would; else random directions, as many as fit in the time left.
- */
-function firstProbeWork(context: ProbeContext, options: CheckOptions): ProbeWork {
-  const n = context.x.length;
-  const available = firstProbeShare * context.calls.remainingMs();
-  const derivativeMs = callsPerDerivative * context.calls.meanCallMs('objective');
-  const affordable = derivativeMs > 0 ? Math.floor(available / derivativeMs) : Number.POSITIVE_INFINITY;
-  if (n <= options.fullCheckMaxDimension && (n <= options.directionCount || n <= affordable)) return { mode: 'full' };
-  return { mode: 'directional', directions: Math.max(1, Math.min(options.directionCount, affordable)) };
-}
 
 /** f and ∇f at the probe, then its derivatives. */
 function expectedSpotCalls(work: Extract<ProbeWork, { mode: 'spot' }>): number {
@@ -86,7 +61,7 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
   let cutShort = false;
   const randomsOf = (p: number) => [createRandom(options.seed, streams.noise + p), createRandom(options.seed, streams.directions + p)] as const;
   try {
-    const first = checkProbe(calls, points[0], 0, null, (context) => firstProbeWork(context, options), ...randomsOf(0));
+    const first = checkProbe(calls, points[0], 0, null, (context) => firstProbeWork(context.calls, context.x.length, options), ...randomsOf(0));
     outcomes.push(first);
     const firstProbeCalls = calls.made();
     const { mode } = first.report;

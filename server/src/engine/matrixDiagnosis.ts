@@ -35,7 +35,7 @@ export function diagnoseMatrix(rows: number, columns: number, entries: EntryChec
   // One wrong entry is named as such, whatever else it could be read as (the only nonzero of its column, say).
   if (wrong.length === 1) return { kind: 'entry', row: wrong[0].row, column: wrong[0].column };
   if (complete && entries.length === rows * columns) {
-    const shape = transposed(table) ?? rowShift(table) ?? columnSwap(table, wrong) ?? factors(table, wrong) ?? diagonalOffset(table, wrong) ?? oneSided(table, wrong);
+    const shape = transposed(table) ?? rowShift(table) ?? lineSwap(table, wrong, 'column') ?? lineSwap(table, wrong, 'row') ?? factors(table, wrong) ?? diagonalOffset(table, wrong) ?? oneSided(table, wrong);
     if (shape) return shape;
   }
   const wrongColumns = [...new Set(wrong.map((e) => e.column))].sort((a, b) => a - b);
@@ -84,29 +84,30 @@ function rowShift(table: Table): MatrixDiagnosis | null {
   return null;
 }
 
-/** The wrong columns pair up: column j holds column k's derivatives and k holds j's. */
-function columnSwap(table: Table, wrong: EntryCheck[]): MatrixDiagnosis | null {
-  const columns = [...new Set(wrong.map((e) => e.column))].sort((a, b) => a - b);
-  if (columns.length < 2) return null;
+/** The wrong columns (or rows) pair up: column j holds column k's derivatives and k holds j's. */
+function lineSwap(table: Table, wrong: EntryCheck[], line: 'column' | 'row'): MatrixDiagnosis | null {
+  const lines = [...new Set(wrong.map((e) => e[line]))].sort((a, b) => a - b);
+  if (lines.length < 2) return null;
+  const across = line === 'column' ? table.rows : table.columns;
+  const at = (k: number, i: number) => (line === 'column' ? table.at(i, k)! : table.at(k, i)!);
   const holds = (j: number, k: number) => {
-    for (let i = 0; i < table.rows; i++) {
-      const a = table.at(i, j)!;
-      const b = table.at(i, k)!;
+    for (let i = 0; i < across; i++) {
+      const [a, b] = [at(j, i), at(k, i)];
       if (!near(a.analytic, b.numerical, Math.max(a.errorBound, b.errorBound))) return false;
     }
     return true;
   };
   const pairs: Array<[number, number]> = [];
-  const left = new Set(columns);
-  for (const j of columns) {
+  const left = new Set(lines);
+  for (const j of lines) {
     if (!left.has(j)) continue;
-    const partner = columns.find((k) => k !== j && left.has(k) && holds(j, k) && holds(k, j));
+    const partner = lines.find((k) => k !== j && left.has(k) && holds(j, k) && holds(k, j));
     if (partner === undefined) return null;
     pairs.push([j, partner]);
     left.delete(j);
     left.delete(partner);
   }
-  return { kind: 'columnSwap', pairs };
+  return line === 'column' ? { kind: 'columnSwap', pairs } : { kind: 'rowSwap', pairs };
 }
 
 /**

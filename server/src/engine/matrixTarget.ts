@@ -7,7 +7,7 @@ import { isDecided, undecidedWording } from './decision';
 import { kindWording } from './kindWording';
 import { checkMatrixProbe, type AnalyticMatrix, type MatrixProbeOutcome, type MatrixWork } from './matrixProbe';
 import { createRandom } from './random';
-import { budgetFinding, runTarget } from './targetRun';
+import { budgetFinding, callsPerDerivative, firstProbeWork, probeTimeMargin, runTarget } from './targetRun';
 import type { CheckOptions, Finding, PairReport, TargetKind } from './types';
 import { BudgetSpent, makeFinding, type CallSite, type UserCalls } from './userCalls';
 import { matrixMismatchMessage } from './wording';
@@ -39,18 +39,29 @@ function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], p
   const wording = kindWording[kind.kind];
   const n = points[0].length;
   const analyticAt = (x: Float64Array, outputs: number, site: CallSite) => kind.analyticAt(calls, x, outputs, site, options);
-  const whole: MatrixWork = kind.canCheckWhole(n, options) ? { mode: 'full' } : { mode: 'directional', directions: options.directionCount };
+  // Probe 1 whole: column by column where the dimension, the matrix and the time left allow, as for a gradient.
+  const firstWork = (): MatrixWork => (kind.canCheckWhole(n, options) ? firstProbeWork(calls, n, options) : { mode: 'directional', directions: options.directionCount });
   const outcomes: MatrixProbeOutcome[] = [];
   let cutShort = false;
   try {
-    for (let p = 0; p < points.length && !outcomes.some((o) => o.mismatch || o.cut); p++) {
+    const first = checkMatrixProbe(calls, points[0], 0, analyticAt, firstWork, createRandom(options.seed, directionStream));
+    outcomes.push(first);
+    const firstProbeCalls = calls.made();
+    const whole: MatrixWork = first.report.mode === 'full' ? { mode: 'full' } : { mode: 'directional', directions: first.report.directions.length || options.directionCount };
+    for (let p = 1; p < points.length && !outcomes.some((o) => o.mismatch || o.cut); p++) {
       const random = () => createRandom(options.seed, directionStream + p);
-      const work = p === 0 ? whole : laterWork(outcomes, whole, n);
+      const work = laterWork(outcomes, whole, n);
+      // F and A at the probe, the repeat and the noise table, then a slice per column.
+      const expectedCalls = work.mode === 'spot' ? 3 + callsPerDerivative * (1 + work.columns.length) : firstProbeCalls;
+      if (calls.remainingMs() < probeTimeMargin * expectedCalls * calls.meanCallMs()) {
+        cutShort = true;
+        break;
+      }
       let outcome = checkMatrixProbe(calls, points[p], p, analyticAt, () => work, random());
       if ((outcome.mismatch || outcome.kink) && work.mode === 'spot') outcome = checkMatrixProbe(calls, points[p], p, analyticAt, () => whole, random());
       outcomes.push(outcome);
     }
-    cutShort = outcomes.some((o) => o.cut);
+    if (outcomes.some((o) => o.cut)) cutShort = true;
   } catch (err) {
     if (!(err instanceof BudgetSpent)) throw err;
     cutShort = true;

@@ -4,6 +4,7 @@
 import type { PairFunctions, PairPlan } from './checkPair';
 import { emptyReport } from './emptyReport';
 import { formatBound } from './format';
+import { defaultDifferenceSettings } from './differences';
 import { createRandom } from './random';
 import { probesAroundStart } from './startProbes';
 import { defaultCheckOptions, type CheckOptions, type Finding, type PairReport, type TargetKind } from './types';
@@ -11,6 +12,31 @@ import { CheckStopped, createUserCalls, describeThrown, makeFinding, type CallBu
 
 // The seeded stream of the drawn probes, apart from every other random choice.
 const probeStream = 1;
+
+/** Another probe is started only when this many times its expected time is left in the budget. */
+export const probeTimeMargin = 1.2;
+
+/**
+ * Calls a smooth slice's difference takes: the tableau's least rows, two calls each. Plans are
+ * sized from it and the measured cost of a call.
+ */
+export const callsPerDerivative = 2 * defaultDifferenceSettings.minLevels;
+/** The first probe's comparison may take this share of the time left; the rest is for the other probes and the curvature. */
+const firstProbeShare = 0.5;
+
+/**
+ * The first probe's comparison, from what a call of the value function cost there: every
+ * component (or column) when the dimension allows it (a cap on calls) and the time left does, or
+ * when it costs no more than the random directions would; else random directions, as many as fit
+ * in the time left.
+ */
+export function firstProbeWork(calls: UserCalls, n: number, options: CheckOptions): { mode: 'full' } | { mode: 'directional'; directions: number } {
+  const available = firstProbeShare * calls.remainingMs();
+  const derivativeMs = callsPerDerivative * calls.meanCallMs('objective');
+  const affordable = derivativeMs > 0 ? Math.floor(available / derivativeMs) : Number.POSITIVE_INFINITY;
+  if (n <= options.fullCheckMaxDimension && (n <= options.directionCount || n <= affordable)) return { mode: 'full' };
+  return { mode: 'directional', directions: Math.max(1, Math.min(options.directionCount, affordable)) };
+}
 
 /**
  * Runs `body` on the target's probe points with its calls counted and budgeted, and turns

@@ -337,6 +337,8 @@ export type MatrixDiagnosis =
   /** Row i holds the derivatives of output i + shift. */
   | { kind: 'rowShift'; shift: number }
   | { kind: 'columnSwap'; pairs: Array<[number, number]> }
+  /** Two outputs' rows exchanged (two residuals written in each other's place). */
+  | { kind: 'rowSwap'; pairs: Array<[number, number]> }
   /** The whole matrix is `factor` × the true one (−1: the sign). */
   | { kind: 'matrixFactor'; factor: number }
   /** Each listed column is `factor` × the true column (−1: its sign). */

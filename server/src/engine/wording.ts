@@ -82,6 +82,8 @@ export function describeMatrixDiagnosis(diagnosis: MatrixDiagnosis | null, wordi
       return `rows shifted by one ${wording.output} (row i holds ${wording.output} i ${diagnosis.shift > 0 ? '+' : '−'} 1)`;
     case 'columnSwap':
       return `columns swapped (${diagnosis.pairs.map(([i, j]) => `${i} ↔ ${j}`).join(', ')})`;
+    case 'rowSwap':
+      return `rows swapped (${diagnosis.pairs.map(([i, j]) => `${wording.output}s ${i} ↔ ${j}`).join(', ')})`;
     case 'matrixFactor':
       return diagnosis.factor === -1 ? 'sign flipped' : `off by a constant factor (${shortNumber(diagnosis.factor, 6)}× the true ${wording.derivative})`;
     case 'columnFactor':

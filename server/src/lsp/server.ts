@@ -134,7 +134,8 @@ export function startServer(connection: Connection): void {
     if (!hit) return null;
     let outcome = checks.outcome(document.uri, hit.pair.key);
     // A passing pair without a learning rate was checked without its curvature: the hover asks for it.
-    if (outcome && outcome.report.status === 'pass' && !outcome.report.smoothness && !hit.pair.learningRate) {
+    // (A Jacobian's least-squares figures come with every check: nothing to ask for.)
+    if (outcome && outcome.report.status === 'pass' && !outcome.report.smoothness && !outcome.report.matrix?.leastSquares && !hit.pair.learningRate) {
       outcome = (await checks.detailedOutcome(document.uri, hit.pair.key, { smoothness: true })) ?? outcome;
     }
     const span = hit.role === 'objective' ? hit.pair.objective.nameSpan : hit.role === 'gradient' ? hit.pair.gradient!.nameSpan : hit.pair.learningRate!.nameSpan;

@@ -191,6 +191,7 @@ const matrixDiagnosisOfKind: { [K in MatrixDiagnosis['kind']]: Reader<Extract<Ma
   transposed: objectOf({ kind: oneOf(['transposed']) }, {}),
   rowShift: objectOf({ kind: oneOf(['rowShift']), shift: finite }, {}),
   columnSwap: objectOf({ kind: oneOf(['columnSwap']), pairs: listOf(countPair, reportLimits.numbers) }, {}),
+  rowSwap: objectOf({ kind: oneOf(['rowSwap']), pairs: listOf(countPair, reportLimits.numbers) }, {}),
   matrixFactor: objectOf({ kind: oneOf(['matrixFactor']), factor: measurement }, {}),
   columnFactor: objectOf({ kind: oneOf(['columnFactor']), columns: listOf(indexFactor, reportLimits.numbers) }, {}),
   rowFactor: objectOf({ kind: oneOf(['rowFactor']), rows: listOf(indexFactor, reportLimits.numbers) }, {}),
