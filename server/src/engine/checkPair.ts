@@ -8,7 +8,7 @@ import { compareWithResiduals } from './leastSquaresForm';
 import { probeSmoothness, smoothnessOf } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
 import { budgetFinding, callsPerDerivative, firstProbeWork, probeTimeMargin, runTarget } from './targetRun';
-import type { CheckOptions, CheckPlan, Finding, PairReport, UndecidedReason, Vector } from './types';
+import type { CheckOptions, CheckPlan, Finding, PairReport, ProbeReport, UndecidedReason, Vector } from './types';
 import { BudgetSpent, type UserCalls } from './userCalls';
 
 /** The user's functions as the engine sees them; the sandbox builds these. */
@@ -136,43 +136,45 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
   // A wrong gradient gives wrong curvature, so smoothness and rates are only
   // estimated when no mismatch was found, and only at probes where f is smooth.
   if (failing) return outcomes[0].context;
+  const smooth = outcomes.find((o) => !o.kink);
+  if (smooth) estimateSmoothness(calls, smooth.context, smooth.report, plan, options, report);
+  return outcomes[0].context;
+}
+
+/**
+ * L̂ and the learning-rate verdict of gradient descent on f, once its gradient is known to be
+ * right, at one probe (`context`, whose report is `probe`): for a gradient pair the first where f
+ * is smooth, which is the user's start when there is one (where their descent begins); for a
+ * Jacobian, f = ½‖r‖² with gradient Jᵀr. The curvature costs two gradient calls per Lanczos step,
+ * so it is measured at one probe only, and only when a learning rate is declared or the caller
+ * asks for it (`options.smoothness`). A budget that runs out leaves no verdict, and says so.
+ */
+export function estimateSmoothness(calls: UserCalls, context: ProbeContext, probe: ProbeReport, plan: PairPlan, options: CheckOptions, report: PairReport): void {
+  if (!(plan.learningRate || options.smoothness || options.plots)) return;
   try {
-    estimateSmoothness(calls, outcomes, plan, options, report);
+    const estimate = probeSmoothness(context, createRandom(options.seed, streams.smoothness + context.probeIndex), options.lanczosSteps);
+    probe.smoothness = estimate;
+    report.smoothness = estimate ? smoothnessOf(estimate) : null;
+    if (!report.smoothness) return;
+    const declared = plan.learningRate;
+    const { x, value, probeIndex } = context;
+    const run = (rate: number, label: 'declared' | 'safe' | 'limit') => descend(calls, x, value, rate, options.descentSteps, label, probeIndex);
+    const declaredRuns = declared ? [run(declared.value, 'declared')] : [];
+    probe.descent.push(...declaredRuns);
+    if (options.plots) {
+      probe.descent.push(run(report.smoothness.safeStep, 'safe'));
+      if (report.smoothness.divergenceStep !== null) probe.descent.push(run(report.smoothness.divergenceStep, 'limit'));
+    }
+    if (declared) {
+      const review = reviewLearningRate(declared, report.smoothness, declaredRuns);
+      report.learningRate = review.verdict;
+      report.findings.push(...review.findings);
+    }
   } catch (err) {
     if (!(err instanceof BudgetSpent)) throw err;
     report.smoothness = null;
     report.learningRate = null;
     report.findings.push(budgetFinding(calls, 'the time budget ran out before the smoothness estimate was done; no learning-rate verdict'));
-  }
-  return outcomes[0].context;
-}
-
-/**
- * L̂ and the learning-rate verdict, once the gradient is known to be right: at the first probe
- * where f is smooth, which is the user's start when there is one (where their descent begins).
- * The curvature costs two gradient calls per Lanczos step, so it is measured at one probe only,
- * and only when a learning rate is declared or the caller asks for it (`options.smoothness`).
- */
-function estimateSmoothness(calls: UserCalls, outcomes: ProbeOutcome[], plan: PairPlan, options: CheckOptions, report: PairReport): void {
-  const first = outcomes.find((o) => !o.kink);
-  if (!first || !(plan.learningRate || options.smoothness || options.plots)) return;
-  const estimate = probeSmoothness(first.context, createRandom(options.seed, streams.smoothness + first.context.probeIndex), options.lanczosSteps);
-  first.report.smoothness = estimate;
-  report.smoothness = estimate ? smoothnessOf(estimate) : null;
-  if (!report.smoothness) return;
-  const declared = plan.learningRate;
-  const { x, value, probeIndex } = first.context;
-  const run = (rate: number, label: 'declared' | 'safe' | 'limit') => descend(calls, x, value, rate, options.descentSteps, label, probeIndex);
-  const declaredRuns = declared ? [run(declared.value, 'declared')] : [];
-  first.report.descent.push(...declaredRuns);
-  if (options.plots) {
-    first.report.descent.push(run(report.smoothness.safeStep, 'safe'));
-    if (report.smoothness.divergenceStep !== null) first.report.descent.push(run(report.smoothness.divergenceStep, 'limit'));
-  }
-  if (declared) {
-    const review = reviewLearningRate(declared, report.smoothness, declaredRuns);
-    report.learningRate = review.verdict;
-    report.findings.push(...review.findings);
   }
 }
 

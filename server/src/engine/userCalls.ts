@@ -99,6 +99,8 @@ export function createUserCalls(fns: PairFunctions, dimension: number, budget: C
       result = which === 'objective' ? fns.objective(argument as Float64Array) : direction ? fns.gradient(argument as Float64Array, directionArgument as Float64Array) : fns.gradient(argument as Float64Array);
       spentMs[which] += Math.max(0, budget.clock() - started);
     } catch (err) {
+      // A function the engine built over the user's (½‖r‖² over the residuals) passes their stops on.
+      if (err instanceof CheckStopped || err instanceof BudgetSpent) throw err;
       const thrown = describeThrown(err);
       const finding = makeFinding('runtime-error', which, `the ${roles[which]} threw at ${describeSite(site)}: ${thrown.text}`, site);
       if (thrown.stack !== undefined) finding.stack = thrown.stack;

@@ -43,8 +43,9 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
   if (leastSquares) {
     rows.push(['σmax(J)², L of the Gauss–Newton model of ½‖r‖²', shortNumber(leastSquares.sigmaMaxSquared)]);
     rows.push(['cond(JᵀJ)', leastSquares.conditionNumber === null ? 'singular to rounding' : shortNumber(leastSquares.conditionNumber)]);
-    rows.push(['gradient descent on ½‖r‖²', `safe at steps ≤ 1/σmax² = ${shortNumber(1 / leastSquares.sigmaMaxSquared)}; diverges on the model from 2/σmax² = ${shortNumber(2 / leastSquares.sigmaMaxSquared)}`]);
-  } else if (s) {
+    rows.push(['gradient descent on ½‖r‖², on that model', `safe at steps ≤ 1/σmax² = ${shortNumber(1 / leastSquares.sigmaMaxSquared)}; diverges from 2/σmax² = ${shortNumber(2 / leastSquares.sigmaMaxSquared)}`]);
+  }
+  if (s) {
     rows.push(['L̂ (local Lipschitz estimate)', shortNumber(s.lipschitz)]);
     rows.push(['safe step 1/L̂', shortNumber(s.safeStep)]);
     rows.push(['divergence at 2/λ⁺', s.divergenceStep === null ? noDivergenceStep : shortNumber(s.divergenceStep)]);
