@@ -1,12 +1,14 @@
 // Kind `hessian`: a gradient ∇f: Rⁿ → Rⁿ and its Hessian H (n × n), checked entry by entry
 // against differences of the gradient, and for symmetry: H of a twice continuously
 // differentiable f is symmetric (Schwarz), so an asymmetric H is wrong whatever the
-// differences can tell. Once it holds, its exact spectrum at the probe gives L̂.
+// differences can tell. Once it holds, its exact spectrum at the probe gives L̂ (no learning
+// rate is judged here: that is the gradient pair's, with its descent runs).
 import { readMatrix, times, type DenseMatrix } from '../matrixRead';
 import type { MatrixKind } from '../matrixTarget';
 import type { Finding, MatrixSummary } from '../types';
 import { CheckStopped, makeFinding } from '../userCalls';
-import { smoothnessFromMatrix } from './spectrum';
+import { smoothnessOf } from '../smoothness';
+import { symmetricEigenvalues } from '../symmetricEigen';
 
 /**
  * |H[i][j] − H[j][i]| beyond this share of the larger of the two (and of 10⁻¹⁰ of the largest
@@ -35,7 +37,13 @@ export const hessianKind: MatrixKind = {
     }
     if (report.status === 'fail' || report.status === 'error') return;
     const held = outcomes.find((o) => o.complete && o.context.analytic.dense);
-    if (held) smoothnessFromMatrix(held.context.analytic.dense!.values, first.rows, held.report, report, plan);
+    // L̂ from the exact spectrum of the Hessian that held, when asked for (a hover, the report); a
+    // Newton solve has no use for a gradient-descent step it did not ask about.
+    if (held && (plan.options.smoothness || plan.options.plots)) {
+      const eigenvalues = symmetricEigenvalues(held.context.analytic.dense!.values, first.rows);
+      held.report.smoothness = { lambdaMax: eigenvalues[eigenvalues.length - 1], lambdaMin: eigenvalues[0], ritzValues: eigenvalues, secantMax: 0, hessianVectorProducts: 0 };
+      report.smoothness = smoothnessOf(held.report.smoothness);
+    }
   },
 };
 
