@@ -271,3 +271,27 @@ test('two residuals written in each other\'s place: rows swapped (Rosenbrock, m 
   assert.deepEqual(report.matrix?.diagnosis, { kind: 'rowSwap', pairs: [[0, 1]] });
   assert.match(report.findings.find((f) => f.code === 'jacobian-mismatch')!.message, /rows swapped \(residuals 0 ↔ 1\)/);
 });
+
+test('a tall Jacobian (20 000 residuals × 50) is checked along random directions and its wrong entry located', () => {
+  // Invented: a sinusoidal series of 50 coefficients sampled at 20 000 points (no external source: the truth is the construction).
+  const [m, n] = [20_000, 50];
+  const t = Array.from({ length: m }, (_, i) => i / m);
+  const series = (p: ArrayLike<number>, ti: number) => {
+    let s = 0;
+    for (let j = 0; j < n; j++) s += p[j] * Math.cos(j * ti);
+    return s;
+  };
+  const report = checkByKind.jacobian(
+    {
+      objective: (p) => t.map((ti) => Math.sin(series(p as number[], ti)) - 0.3),
+      gradient: (p) => t.map((ti, i) => Array.from({ length: n }, (_, j) => Math.cos(series(p as number[], ti)) * Math.cos(j * ti) * (i === 7 && j === 3 ? 1.01 : 1))),
+      makeVector: makeArray,
+    },
+    [Array.from({ length: n }, (_, j) => 0.01 * j)],
+    { dimension: null, learningRate: null, options: defaultCheckOptions },
+  );
+  assert.equal(report.probes[0].mode, 'directional');
+  assert.deepEqual(report.matrix?.diagnosis, { kind: 'entry', row: 7, column: 3 });
+  // The report stays small: only the located column's wrong and undecided entries are kept.
+  assert.ok(JSON.stringify(report).length < 100_000);
+});

@@ -3,6 +3,7 @@
 // column or a row off by a sign or a constant factor, a wrong diagonal, one wrong entry, or
 // errors confined to a block. Each shape must explain every entry to within its error bound.
 import type { EntryCheck, MatrixDiagnosis } from './types';
+import { largest, smallest } from './vectors';
 
 // Shapes must hold to this relative accuracy on top of the numerical error bound (as for gradients).
 const shapeTolerance = 1e-6;
@@ -42,8 +43,8 @@ export function diagnoseMatrix(rows: number, columns: number, entries: EntryChec
   const wrongRows = [...new Set(wrong.map((e) => e.row))].sort((a, b) => a - b);
   if (wrongColumns.length <= fewLines && wrongColumns.length < columns) return { kind: 'columns', columns: wrongColumns };
   if (wrongRows.length <= fewLines && wrongRows.length < rows) return { kind: 'rows', rows: wrongRows };
-  const rowsSpan: [number, number] = [Math.min(...wrong.map((e) => e.row)), Math.max(...wrong.map((e) => e.row))];
-  const columnsSpan: [number, number] = [Math.min(...wrong.map((e) => e.column)), Math.max(...wrong.map((e) => e.column))];
+  const rowsSpan: [number, number] = [smallest(wrong.map((e) => e.row)), largest(wrong.map((e) => e.row))];
+  const columnsSpan: [number, number] = [smallest(wrong.map((e) => e.column)), largest(wrong.map((e) => e.column))];
   const area = (rowsSpan[1] - rowsSpan[0] + 1) * (columnsSpan[1] - columnsSpan[0] + 1);
   if (area <= regionShare * rows * columns) return { kind: 'region', rows: rowsSpan, columns: columnsSpan };
   return { kind: 'unknown' };

@@ -14,7 +14,7 @@ import { checkSlice, gradientUnitOf } from './probeContext';
 import type { Random } from './random';
 import type { DirectionalCheck, EntryCheck, MatrixDiagnosis, ProbeReport } from './types';
 import { BudgetSpent, CheckStopped, makeFinding, type CallSite, type UserCalls } from './userCalls';
-import { offset } from './vectors';
+import { largest, norm2, offset } from './vectors';
 
 /** What the user's derivative says at the probe. */
 export interface AnalyticMatrix {
@@ -66,6 +66,14 @@ export interface MatrixProbeOutcome {
 
 // Entries kept in a report (a 64 × 64 heat map); beyond, only wrong and undecided ones.
 export const shownEntries = 4096;
+/**
+ * Entries of the largest matrix checked column by column: every entry is a difference tableau
+ * and a row of the report, about 20 µs and 150 bytes each, so 50 000 stay near a second and a few
+ * MB; a larger one is checked along random directions, its wrong columns located.
+ */
+export const largestWholeMatrix = 50_000;
+// Outputs judged between two looks at the clock: judging costs time but calls nothing, so the budget is read here too.
+const outputsPerClockRead = 1000;
 // Directional differences (pooled and column) allowed for locating wrong columns at one probe.
 const localisationBudget = 80;
 // Pools this small are checked column by column.
@@ -96,8 +104,8 @@ export function checkMatrixProbe(
   const noise = noiseOfOutputs(calls, x, values, probeIndex, random);
   const floor = roundingFloor(analytic, x);
   for (let i = 0; i < noise.length; i++) noise[i] = Math.max(noise[i], floor[i] ?? 0, Number.isFinite(repeated[i]) ? Math.abs(repeated[i] - values[i]) : Math.abs(values[i]));
-  const largest = Math.max(...values.map(Math.abs), ...noise);
-  const relativeNoise = Math.max(...noise) / Math.max(largest, Number.MIN_VALUE);
+  const scale = Math.max(largest(values.map(Math.abs)), largest(noise));
+  const relativeNoise = largest(noise) / Math.max(scale, Number.MIN_VALUE);
   const relativeStep = Math.min(largestInitialStep, Math.max(smallestInitialStep, 4 * Math.pow(relativeNoise, 1 / 5)));
   const unit = analytic.dense ? gradientUnitOf(analytic.dense.values) : 2 ** -52;
   const context: MatrixProbeContext = { calls, probeIndex, x, values, noise, relativeStep, analytic, unit };
@@ -106,7 +114,7 @@ export function checkMatrixProbe(
     report: {
       point: Array.from(x.subarray(0, 64)),
       dimension: x.length,
-      value: Math.hypot(...values),
+      value: norm2(values),
       mode: work.mode,
       components: [],
       directions: [],
@@ -184,9 +192,10 @@ interface OutputCheck {
  */
 function checkOutputs(context: MatrixProbeContext, direction: Float64Array, step: number, analytic: Float64Array, roundoff: ArrayLike<number>, sizes: ArrayLike<number>, unit: number): OutputCheck[] {
   const slice = sliceOf(context.calls, context.x, direction, { probeIndex: context.probeIndex, point: 'a finite-difference point' });
-  return [...context.values.keys()].map((i) =>
-    checkSlice((t) => slice(t)[i], context.values[i], step, analytic[i], { roundoffScale: roundoff[i], unit, size: sizes[i] }, { ...defaultDifferenceSettings, noise: context.noise[i], valueScale: valueScaleOf(context, i) }),
-  );
+  return [...context.values.keys()].map((i) => {
+    if (i % outputsPerClockRead === outputsPerClockRead - 1 && context.calls.remainingMs() <= 0) throw new BudgetSpent();
+    return checkSlice((t) => slice(t)[i], context.values[i], step, analytic[i], { roundoffScale: roundoff[i], unit, size: sizes[i] }, { ...defaultDifferenceSettings, noise: context.noise[i], valueScale: valueScaleOf(context, i) });
+  });
 }
 
 /**
@@ -265,15 +274,15 @@ function checkProduct(context: MatrixProbeContext, direction: Float64Array): { c
   const n = context.x.length;
   const roundoff = new Float64Array(analytic.length);
   const sizes = new Float64Array(analytic.length);
-  const largest = Math.max(...analytic.map(Math.abs));
+  const size = largest(analytic.map(Math.abs));
   for (let i = 0; i < analytic.length; i++) {
     if (dense) {
       const row = dense.values.subarray(i * n, (i + 1) * n);
       for (let j = 0; j < n; j++) roundoff[i] += Math.abs(row[j] * direction[j]);
       sizes[i] = directionalSize(row, context.x, 0, n);
     } else {
-      roundoff[i] = largest;
-      sizes[i] = largest;
+      roundoff[i] = size;
+      sizes[i] = size;
     }
   }
   // Rounding of the dot products grows with the number of terms.

@@ -5,11 +5,12 @@
 import type { PairFunctions, PairPlan } from './checkPair';
 import { isDecided, undecidedWording } from './decision';
 import { kindWording } from './kindWording';
-import { checkMatrixProbe, type AnalyticMatrix, type MatrixProbeOutcome, type MatrixWork } from './matrixProbe';
+import { checkMatrixProbe, largestWholeMatrix, type AnalyticMatrix, type MatrixProbeContext, type MatrixProbeOutcome, type MatrixWork } from './matrixProbe';
 import { createRandom } from './random';
 import { budgetFinding, callsPerDerivative, firstProbeWork, probeTimeMargin, runTarget } from './targetRun';
 import type { CheckOptions, Finding, PairReport, TargetKind } from './types';
 import { BudgetSpent, makeFinding, type CallSite, type UserCalls } from './userCalls';
+import { largest } from './vectors';
 import { matrixMismatchMessage } from './wording';
 
 /** What one matrix kind adds to the shared check. */
@@ -20,8 +21,6 @@ export interface MatrixKind {
    * checked, or products of the user's product function.
    */
   analyticAt(calls: UserCalls, x: Float64Array, outputs: number, site: CallSite, options: CheckOptions): AnalyticMatrix;
-  /** Whether the full (column by column) check is possible at this dimension. */
-  canCheckWhole(n: number, options: CheckOptions): boolean;
   /** Findings and figures once the derivative is known to be right (or at least not wrong) at the probes. */
   afterCheck?(outcomes: MatrixProbeOutcome[], report: PairReport, plan: PairPlan): void;
 }
@@ -39,8 +38,10 @@ function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], p
   const wording = kindWording[kind.kind];
   const n = points[0].length;
   const analyticAt = (x: Float64Array, outputs: number, site: CallSite) => kind.analyticAt(calls, x, outputs, site, options);
-  // Probe 1 whole: column by column where the dimension, the matrix and the time left allow, as for a gradient.
-  const firstWork = (): MatrixWork => (kind.canCheckWhole(n, options) ? firstProbeWork(calls, n, options) : { mode: 'directional', directions: options.directionCount });
+  // Probe 1 whole: column by column where the user gives the whole matrix, its size allows and
+  // the time left does (firstProbeWork, as for a gradient); else random directions.
+  const firstWork = (context: MatrixProbeContext): MatrixWork =>
+    context.analytic.dense && context.values.length * n <= largestWholeMatrix ? firstProbeWork(calls, n, options) : { mode: 'directional', directions: options.directionCount };
   const outcomes: MatrixProbeOutcome[] = [];
   let cutShort = false;
   try {
@@ -75,7 +76,7 @@ function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], p
   }
   for (const outcome of outcomes) report.probes.push(outcome.report);
   if (cutShort) report.findings.push(budgetFinding(calls, `the time budget ran out after ${outcomes.length === 1 ? 'probe 1' : `probes 1–${outcomes.length}`} of ${points.length}; the verdict rests on ${outcomes.length === 1 ? 'it' : 'them'}`));
-  report.maxRelError = Math.max(...outcomes.map((o) => o.report.maxRelError));
+  report.maxRelError = largest(outcomes.map((o) => o.report.maxRelError));
   const failing = outcomes.find((o) => o.mismatch);
   const kinked = outcomes.filter((o) => o.kink);
   for (const outcome of kinked) report.findings.push(nonSmoothFinding(outcome));

@@ -13,7 +13,7 @@ import type { Random } from './random';
 import { isDecided } from './decision';
 import type { ComponentCheck, Diagnosis, DirectionalCheck, Finding, ProbeReport, StepStudy } from './types';
 import { CheckStopped, makeFinding, type CallSite, type UserCalls } from './userCalls';
-import { offset, offsetComponent } from './vectors';
+import { largest, offset, offsetComponent } from './vectors';
 
 export interface ProbeOutcome {
   report: ProbeReport;
@@ -215,7 +215,7 @@ function mismatchFinding(outcome: ProbeOutcome): Finding {
 /** Largest |analytic − numerical| / max(|analytic|, |numerical|) among the decided derivatives. */
 export function largestRelError(checks: DirectionalCheck[]): number {
   const decided = checks.filter((c) => isDecided(c));
-  return Math.max(0, ...decided.map((c) => Math.abs(c.analytic - c.numerical) / (Math.max(Math.abs(c.analytic), Math.abs(c.numerical)) || 1)));
+  return Math.max(0, largest(decided.map((c) => Math.abs(c.analytic - c.numerical) / (Math.max(Math.abs(c.analytic), Math.abs(c.numerical)) || 1))));
 }
 
 /**

@@ -31,3 +31,17 @@ export function allFinite(a: ArrayLike<number>): boolean {
   return true;
 }
 
+
+/** The largest value (−Infinity for none), read in a loop: spreading a long array into Math.max overflows the stack. */
+export function largest(values: Iterable<number>): number {
+  let result = Number.NEGATIVE_INFINITY;
+  for (const v of values) if (v > result) result = v;
+  return result;
+}
+
+/** The smallest value (Infinity for none), read in a loop (see largest). */
+export function smallest(values: Iterable<number>): number {
+  let result = Number.POSITIVE_INFINITY;
+  for (const v of values) if (v < result) result = v;
+  return result;
+}

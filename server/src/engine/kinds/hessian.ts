@@ -8,6 +8,7 @@ import type { MatrixKind } from '../matrixTarget';
 import type { Finding, MatrixSummary } from '../types';
 import { CheckStopped, makeFinding } from '../userCalls';
 import { smoothnessOf } from '../smoothness';
+import { largest } from '../vectors';
 import { symmetricEigenvalues } from '../symmetricEigen';
 
 /**
@@ -24,7 +25,6 @@ export const hessianKind: MatrixKind = {
     const dense = readMatrix(calls.derivativeResult(x, site), x.length, x.length, 'Hessian', site);
     return { dense, times: (v) => times(dense, v) };
   },
-  canCheckWhole: (n, options) => n <= options.fullCheckMaxDimension,
   afterCheck(outcomes, report, plan) {
     const first = outcomes[0].context.analytic.dense;
     if (!first) return;
@@ -49,7 +49,7 @@ export const hessianKind: MatrixKind = {
 
 export function largestAsymmetry(h: DenseMatrix): MatrixSummary['asymmetry'] | null {
   const n = h.rows;
-  const largestEntry = Math.max(...h.values.map(Math.abs));
+  const largestEntry = largest(h.values.map(Math.abs));
   let worst: { row: number; column: number; gap: number; scale: number } | null = null;
   for (let i = 0; i < n; i++) {
     for (let j = i + 1; j < n; j++) {

@@ -22,7 +22,6 @@ export const hessianVectorProductKind: MatrixKind = {
     }
     return { dense, times: (v) => times(dense, v) };
   },
-  canCheckWhole: (n, options) => n <= options.fullCheckMaxDimension,
 };
 
 function unitVector(n: number, j: number): Float64Array {

@@ -22,7 +22,6 @@ export const jacobianKind: MatrixKind = {
     const dense = readMatrix(calls.derivativeResult(x, site), outputs, x.length, 'Jacobian', site);
     return { dense, times: (v) => times(dense, v) };
   },
-  canCheckWhole: (n, options) => n <= options.fullCheckMaxDimension,
   afterCheck(outcomes, report, plan) {
     if (report.status === 'fail' || report.status === 'error') return;
     const held = outcomes.find((o) => o.complete && o.context.analytic.dense);
