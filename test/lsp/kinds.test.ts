@@ -9,7 +9,7 @@ import type { DocumentCheck, PairOutcome } from '../../server/src/check/checkDoc
 import { discoverPairs } from '../../server/src/discovery/discover';
 import { checkByKind } from '../../server/src/engine/kinds';
 import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
-import { lensTitle } from '../../server/src/lsp/codeLens';
+import { lensTitle, pairLenses } from '../../server/src/lsp/codeLens';
 import { toDiagnostics } from '../../server/src/lsp/diagnostics';
 import { hoverMarkdown } from '../../server/src/lsp/hover';
 import { shortNumber } from '../../server/src/shared/wording';
@@ -83,4 +83,15 @@ test('the report of a wrong Jacobian draws the heat map with the swapped entries
   assert.match(html, /data-plot="heat-map"/);
   assert.match(html, /J\[0\]\[1\]/);
   assert.match(html, /Shape of the matrix<\/th><td>5 × 2/);
+});
+
+test('a Hessian\'s code lens sits on the Hessian, not on the gradient it shares with its pair', () => {
+  const text = [
+    'export function energy(x: number[]) { return x[0] * x[0]; }',
+    'export function energyGrad(x: number[]) { return [2 * x[0]]; }',
+    'export function energyHessian(x: number[]) { return [[2]]; }',
+    '',
+  ].join('\n');
+  const lines = discoverPairs(text, '/w/e.ts').pairs.map((pair) => [pair.kind, pairLenses('file:///w/e.ts', pair, null, false)[0].range.start.line]);
+  assert.deepEqual(lines, [['gradient', 0], ['hessian', 2]]);
 });

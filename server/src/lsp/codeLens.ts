@@ -1,7 +1,8 @@
 // The one-line summary shown above each pair, and its commands.
 import type { CodeLens } from 'vscode-languageserver';
 import type { PairOutcome } from '../check/checkDocument';
-import type { DiscoveredPair } from '../discovery/types';
+import { anchorOf } from '../discovery/pairing';
+import type { DiscoveredPair, NamedSpan } from '../discovery/types';
 import { toRange } from './diagnostics';
 import { errorShapeOf, floorToSignificant, shortNumber, verdictOf, verdictWords } from '../shared/wording';
 
@@ -29,7 +30,8 @@ export function lensTitle(outcome: PairOutcome | null, checking: boolean): strin
 }
 
 export function pairLenses(uri: string, pair: DiscoveredPair, outcome: PairOutcome | null, checking: boolean, trusted = true): CodeLens[] {
-  const range = toRange(pair.objective.nameSpan);
+  // Above the function the target is known by: a Hessian's lens sits on the Hessian, not on the gradient it shares.
+  const range = toRange(anchorOf<NamedSpan>(pair).nameSpan);
   // In an untrusted workspace nothing runs, so there is nothing to open and no check to start.
   if (!trusted) return [{ range, command: { title: 'not checked: the workspace is not trusted', command: '' } }];
   const title = pair.skipped ? 'not checked (slopecheck-skip)' : lensTitle(outcome, checking);
