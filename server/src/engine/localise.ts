@@ -58,7 +58,7 @@ interface Search {
 // Sub-pools per split: each split costs this many differences and shrinks the pools as much.
 const subPools = 4;
 // Pools this small are cheaper to check member by member than to decode.
-const directCheckSize = 3;
+export const directCheckSize = 3;
 // Candidates left after decoding that are checked one by one rather than narrowed further.
 const maxCandidates = 2;
 const narrowingRounds = 3;

@@ -30,10 +30,7 @@ export function noiseFromTable(values: ArrayLike<number>): NoiseTableResult {
   let diffs = Array.from(values);
   const fMin = Math.min(...diffs);
   const fMax = Math.max(...diffs);
-  // The levels are still computed when the spread is too wide: for an f that is 0 at the point
-  // (a residual at its fit) every spacing is "too wide", and the smallest level is then what
-  // bounds the noise from above (estimateNoise's fallback).
-  const sampledShape = (fMax - fMin) > shapeSpread * Math.max(Math.abs(fMax), Math.abs(fMin));
+  if ((fMax - fMin) > shapeSpread * Math.max(Math.abs(fMax), Math.abs(fMin))) return { verdict: 'step-too-large', noise: 0, levels: [] };
   const levels: number[] = [];
   const signChanges: boolean[] = [];
   let gamma = 1;
@@ -47,7 +44,6 @@ export function noiseFromTable(values: ArrayLike<number>): NoiseTableResult {
     levels.push(Math.sqrt(gamma * meanSquare));
     signChanges.push(Math.min(...diffs) * Math.max(...diffs) < 0);
   }
-  if (sampledShape) return { verdict: 'step-too-large', noise: 0, levels };
   for (let k = 0; k + 2 < levels.length; k++) {
     const window = levels.slice(k, k + 3);
     if (Math.max(...window) <= levelAgreement * Math.min(...window) && signChanges[k]) return { verdict: 'found', noise: levels[k], levels };

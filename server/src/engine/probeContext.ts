@@ -60,7 +60,11 @@ const smallestInitialStep = 1e-3;
 const largestInitialStep = 0.05;
 
 export function initialRelativeStep(context: ProbeContext): number {
-  const relativeNoise = context.noise / Math.max(Math.abs(context.value), context.noise, Number.MIN_VALUE);
+  return relativeStepFor(context.noise / Math.max(Math.abs(context.value), context.noise, Number.MIN_VALUE));
+}
+
+/** The first relative step for a function of relative noise `relativeNoise` (see above). */
+export function relativeStepFor(relativeNoise: number): number {
   return Math.min(largestInitialStep, Math.max(smallestInitialStep, initialStepFactor * Math.pow(relativeNoise, 1 / (extrapolatedOrder + 1))));
 }
 

@@ -18,6 +18,13 @@ export function offset(x: ArrayLike<number>, t: number, v: ArrayLike<number>): F
   return out;
 }
 
+/** eⱼ of length n. */
+export function unitVector(n: number, j: number): Float64Array {
+  const e = new Float64Array(n);
+  e[j] = 1;
+  return e;
+}
+
 /** x with component `index` moved by t. */
 export function offsetComponent(x: Float64Array, index: number, t: number): Float64Array {
   const out = new Float64Array(x);
