@@ -2,7 +2,7 @@
 // say why instead of failing silently.
 import * as vscode from 'vscode';
 import { methods, type DocumentParams, type PairListing } from '../../server/src/shared/protocol';
-import { verdictWords } from '../../server/src/shared/wording';
+import { kindWording, verdictWords } from '../../server/src/shared/wording';
 import { commandIds } from './commandIds';
 import { pairAtCursor, symbolSpans, type SymbolLike } from './pairAtCursor';
 import type { ReportPanels } from './report/panel';
@@ -48,7 +48,7 @@ export function registerCommands({ server, panels, log }: Services): vscode.Disp
     const params: DocumentParams = { uri };
     const pairs = await server.request<PairListing[]>(methods.listPairs, params);
     if (pairs.length === 0) {
-      void vscode.window.showInformationMessage('Slopecheck found no exported objective/gradient pair in this file.');
+      void vscode.window.showInformationMessage('Slopecheck found nothing to check in this file: no objective with its gradient, residuals with their Jacobian, or Hessian.');
       return undefined;
     }
     const symbols = await vscode.commands
@@ -109,10 +109,16 @@ export function registerCommands({ server, panels, log }: Services): vscode.Disp
 async function pickPair(pairs: PairListing[]): Promise<PairListing | undefined> {
   const items = pairs.map((pair) => ({
     label: pair.objective,
-    description: pair.gradient ? `gradient ${pair.gradient}` : 'value and gradient in one function',
+    description: describeListing(pair),
     detail: `line ${pair.line + 1} · ${statusWords[pair.status]}`,
     pair,
   }));
-  const picked = await vscode.window.showQuickPick(items, { title: 'Slopecheck: which objective?', placeHolder: 'The cursor is on none of the pairs; pick one' });
+  const picked = await vscode.window.showQuickPick(items, { title: 'Slopecheck: which target?', placeHolder: 'The cursor is on none of the targets; pick one' });
   return picked?.pair;
+}
+
+/** "Jacobian sondeJacobian of sondeResiduals", "gradient lossGrad of loss", "objective and gradient in one function". */
+function describeListing(pair: PairListing): string {
+  const words = kindWording[pair.kind];
+  return pair.gradient ? `${words.derivative} ${pair.gradient} of ${pair.value}` : `${words.value} and ${words.derivative} in one function`;
 }

@@ -41,7 +41,7 @@ export function statusView(health: ServerHealth, trusted: boolean, summary: Docu
   if (summary.state === 'checking') return { text: '$(sync~spin) Slopecheck: checking…', tooltip: links, alarm: false };
 
   const counts = countOrder.filter((status) => (summary.byStatus[status] ?? 0) > 0).map((status) => `${summary.byStatus[status]} ${verdictCountWords[status]}`);
-  if (counts.length === 0) return { text: '$(dash) Slopecheck: no pairs', tooltip: `No objective/gradient pair found in this file.\n\n${links}`, alarm: false };
+  if (counts.length === 0) return { text: '$(dash) Slopecheck: no pairs', tooltip: `Nothing to check found in this file: no objective with its gradient, residuals with their Jacobian, or Hessian.\n\n${links}`, alarm: false };
   const icon = summary.byStatus.fail > 0 || summary.byStatus.error > 0 ? '$(error)' : summary.byStatus.inconclusive > 0 ? '$(warning)' : '$(check)';
   const step = summary.smallestSafeStep === null ? '' : `\n\nSmallest safe step 1/L̂ in this file: ${Number(summary.smallestSafeStep.toPrecision(4))} (a local estimate).`;
   return { text: `${icon} Slopecheck: ${counts.join(', ')}`, tooltip: `Gradients in this file: ${counts.join(', ')}.${step}\n\n${links}`, alarm: false };

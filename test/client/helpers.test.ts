@@ -44,8 +44,8 @@ describe('status bar text', () => {
 
 describe('pair under the cursor', () => {
   const pairs: PairListing[] = [
-    { objective: 'loss', gradient: 'lossGrad', line: 2, status: 'pass' },
-    { objective: 'energy', gradient: 'forces', line: 20, status: 'fail' },
+    { objective: 'loss', kind: 'gradient', value: 'loss', gradient: 'lossGrad', line: 2, status: 'pass' },
+    { objective: 'energy', kind: 'gradient', value: 'energy', gradient: 'forces', line: 20, status: 'fail' },
   ];
   // Shapes as vscode.executeDocumentSymbolProvider returns them: DocumentSymbol trees with ranges.
   const symbols = symbolSpans([

@@ -52,6 +52,7 @@ function result(report: PairReport): PairReportResult {
   return {
     uri: 'file:///example/model.ts',
     objective: attack(20),
+    value: attack(20),
     gradient: attack(21),
     line: 3,
     report,

@@ -20,6 +20,7 @@ const failing = check((x) => [2 * x[0], 40 * x[1]]);
 const wrap = (report: typeof passing): PairReportResult => ({
   uri: 'file:///example/model.ts',
   objective: 'loss<img src=x>',
+  value: 'loss<img src=x>',
   gradient: 'lossGrad',
   line: 3,
   report,

@@ -112,7 +112,7 @@ describe('Slopecheck in VS Code, trusted workspace', { timeout: 240_000 }, () =>
     await workbench.expectVisible(workbench.codeLens('gradient matches · step ≤'), 'the code lens "gradient matches · step ≤ …" above salinityCalibration');
 
     await workbench.runCommand("Slopecheck: Check This Objective's Gradient");
-    await workbench.expectVisible(workbench.page.locator('.tab', { hasText: 'Gradient report: salinityCalibration' }), 'the tab "Gradient report: salinityCalibration"');
+    await workbench.expectVisible(workbench.page.locator('.tab', { hasText: 'Slopecheck report: salinityCalibration' }), 'the tab "Slopecheck report: salinityCalibration"');
     const report = await workbench.webviewFrame('#report-root .figures-table', 'the report of salinityCalibration with its figures table');
     for (const plot of plots) {
       const svg = report.locator(`.plot[data-plot="${plot}"]`);
@@ -129,7 +129,7 @@ describe('Slopecheck in VS Code, trusted workspace', { timeout: 240_000 }, () =>
     // For the picture: the report alone, at its figures, with the plots below them.
     await workbench.hidePanel();
     await workbench.hideSideBar();
-    await workbench.maximizeGroupOf('Gradient report: salinityCalibration');
+    await workbench.maximizeGroupOf('Slopecheck report: salinityCalibration');
     await report.locator('.figures').scrollIntoViewIfNeeded();
     publish(await screenshot(workbench.page, '4-report-maximized'), 'report.png');
   });

@@ -5,7 +5,7 @@ import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { checkPair, type PairFunctions } from '../../server/src/engine/checkPair';
 import { defaultCheckOptions, type PairReport } from '../../server/src/engine/types';
-import { makeArray, makeFloat64, engineCoreSet as moreGarbowHillstrom, rosenbrock, type Gradient, type Objective } from '../support/problems';
+import { freudensteinRoth, makeArray, makeFloat64, engineCoreSet as moreGarbowHillstrom, rosenbrock, type Gradient, type Objective } from '../support/problems';
 
 const plan = (dimension: number | null = null) => ({ dimension, learningRate: null, options: { ...defaultCheckOptions } });
 
@@ -182,4 +182,12 @@ describe('report contents', () => {
     assert.match(finding.message, /off by a constant factor \(2× the true gradient\)/);
     assert.match(finding.message, /Component 0: analytic 4, numerical 2 ± /);
   });
+});
+
+test('correct gradients near a zero-residual minimum still pass (the noise of an f near 0 is not overestimated)', () => {
+  // Freudenstein–Roth (MGH 2) has f = 0 at (5, 4) (Moré, Garbow & Hillstrom 1981, from memory); a probe 1e-9 away.
+  const p = freudensteinRoth;
+  const report = check(p.f, p.g, [[5 + 3e-9, 4 - 2e-9]]);
+  assert.equal(report.status, 'pass', report.findings.map((f) => f.message).join('\n'));
+  assert.ok(!report.findings.some((f) => f.code === 'noisy-objective'));
 });

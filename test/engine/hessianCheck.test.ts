@@ -153,3 +153,26 @@ describe('what a wrong Hessian looks like, named', () => {
     assert.ok(checkHessian(wood).smoothness!.lipschitz > 0);
   });
 });
+
+describe('review cases', () => {
+  test('a product function whose Hessian is not symmetric is told so', () => {
+    const rosenbrock = withHessian.find((p) => p.name.startsWith('Rosenbrock'))!;
+    const report = checkProduct(rosenbrock, (H, v) => times([[H[0][0], H[0][1] + 3], [H[1][0], H[1][1]]], v));
+    assert.ok(report.findings.some((f) => f.code === 'hessian-not-symmetric' && /the Hessian its products give is not symmetric/.test(f.message)));
+  });
+
+  test('the figures of a wide Jacobian (10 × 400) come from Lanczos on JᵀJ·v and agree with ml-matrix', () => {
+    // Invented: ten smooth residuals of 400 coordinates; truth by construction, reference ml-matrix's SVD.
+    const n = 400;
+    const rowOf = (i: number) => Array.from({ length: n }, (_, j) => Math.cos((i + 1) * (j + 1) * 0.01) / (1 + i));
+    const rows = Array.from({ length: 10 }, (_, i) => rowOf(i));
+    const report = checkByKind.jacobian(
+      { objective: (x) => rows.map((row) => row.reduce((s, a, j) => s + a * (x as number[])[j], 0) + 0.1 * (x as number[])[0] ** 2), gradient: (x) => rows.map((row) => row.map((a, j) => a + (j === 0 ? 0.2 * (x as number[])[0] : 0))), makeVector: makeArray },
+      [Array.from({ length: n }, () => 0)],
+      { dimension: null, learningRate: null, options: { ...defaultCheckOptions, fullCheckMaxDimension: n } },
+    );
+    assert.equal(report.status, 'pass', report.findings.map((f) => f.message).join('\n'));
+    const sigma = new SingularValueDecomposition(new Matrix(rows)).diagonal[0];
+    assert.ok(Math.abs(report.matrix!.leastSquares!.sigmaMaxSquared - sigma ** 2) <= 1e-6 * sigma ** 2, `${report.matrix!.leastSquares!.sigmaMaxSquared} vs ${sigma ** 2}`);
+  });
+});

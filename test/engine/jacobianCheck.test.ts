@@ -295,3 +295,10 @@ test('a tall Jacobian (20 000 residuals × 50) is checked along random direction
   // The report stays small: only the located column's wrong and undecided entries are kept.
   assert.ok(JSON.stringify(report).length < 100_000);
 });
+
+test('only the edge row wrong, the other rows alike, is one wrong row, not a shift', () => {
+  // Powell singular (MGH 13) has four rows; its last row doubled, nothing else changed.
+  const powell = leastSquares.find((p) => p.name.startsWith('Powell singular'))!;
+  const report = checkJacobian(powell, (J) => [J[0], J[1], J[2], J[3].map((v) => 2 * v)]);
+  assert.notEqual(report.matrix?.diagnosis?.kind, 'rowShift');
+});

@@ -178,6 +178,6 @@ describe('prototype pollution in user code', () => {
     const again = await client.request('slopecheck/checkAgain', { uri });
     assert.equal(again.state, 'done');
     assert.deepEqual(again.byStatus, { pass: 0, fail: 1, inconclusive: 0, error: 0 });
-    assert.deepEqual(await client.request('slopecheck/listPairs', { uri }), [{ objective: 'spread', gradient: 'spreadGrad', line: 1, status: 'fail' }]);
+    assert.deepEqual(await client.request('slopecheck/listPairs', { uri }), [{ objective: 'spread', kind: 'gradient', value: 'spread', gradient: 'spreadGrad', line: 1, status: 'fail' }]);
   });
 });

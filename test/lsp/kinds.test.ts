@@ -78,7 +78,8 @@ test('the report of a wrong Jacobian draws the heat map with the swapped entries
   const wrong = cells.filter((cell) => cell.attributes.class.includes('heat-wrong'));
   const expected = outcome.report.probes[0].entries!.filter((e) => e.mismatch).map((e) => `${e.row},${e.column}`).sort();
   assert.deepEqual(wrong.map((cell) => `${cell.attributes['data-row']},${cell.attributes['data-column']}`).sort(), expected);
-  const html = renderReport({ uri: 'file:///w/kiln.ts', objective: 'kilnJacobian', gradient: 'kilnJacobian', line: 5, report: outcome.report, console: [], settings: { seed: 1, timeoutMs: 10_000, probeCount: 3 } });
+  const html = renderReport({ uri: 'file:///w/kiln.ts', objective: 'kilnJacobian', value: 'kilnResiduals', gradient: 'kilnJacobian', line: 5, report: outcome.report, console: [], settings: { seed: 1, timeoutMs: 10_000, probeCount: 3 } });
+  assert.match(html, /<h1>kilnResiduals \/ kilnJacobian<\/h1>/);
   assert.match(html, /Jacobian wrong/);
   assert.match(html, /data-plot="heat-map"/);
   assert.match(html, /J\[0\]\[1\]/);

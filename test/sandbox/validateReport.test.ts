@@ -3,6 +3,7 @@
 import assert from 'node:assert/strict';
 import { describe, test } from 'node:test';
 import { checkPair } from '../../server/src/engine/checkPair';
+import { checkByKind } from '../../server/src/engine/kinds';
 import { defaultCheckOptions, type Finding, type PairReport } from '../../server/src/engine/types';
 import { errorReport, timeoutFinding } from '../../server/src/sandbox/reports';
 import { reportLimits, validateConsole, validateReport } from '../../server/src/sandbox/validateReport';
@@ -32,6 +33,9 @@ const realReports: Record<string, PairReport> = {
   'the gradient throws': check(bowl, () => { throw new RangeError('no gradient today'); }, probes),
   'directional check at n = 80': check(wide, wideGradient, [Array.from({ length: 80 }, (_, i) => Math.sin(i + 1))]),
   'a timeout': errorReport([timeoutFinding(5000)], 5000),
+  // Linear residuals r = (2x₀ + x₁, x₀ + 20x₁), Jacobian [[2, 1], [1, 20]] by hand: right, and with column 1 doubled.
+  'a Jacobian that holds': checkByKind.jacobian({ objective: (x) => [2 * x[0] + x[1], x[0] + 20 * x[1]], gradient: () => [[2, 1], [1, 20]], makeVector: (v) => Array.from(v) }, probes, { dimension: null, learningRate: null, options: { ...defaultCheckOptions, smoothness: true } }),
+  'a Jacobian with a column doubled': checkByKind.jacobian({ objective: (x) => [2 * x[0] + x[1], x[0] + 20 * x[1]], gradient: () => [[2, 2], [1, 40]], makeVector: (v) => Array.from(v) }, probes, { dimension: null, learningRate: null, options: defaultCheckOptions }),
 };
 const overJson = (report: unknown) => JSON.parse(JSON.stringify(report));
 
@@ -276,5 +280,23 @@ describe('validateConsole', () => {
     const total = validateConsole(Array(100).fill('y'.repeat(1500)));
     assert.ok(total.reduce((sum, line) => sum + line.length, 0) <= reportLimits.consoleLength + 100);
     assert.match(total.at(-1)!, /console output cut/);
+  });
+});
+
+describe('the matrix kinds\' fields', () => {
+  test('a Jacobian\'s report passes with its matrix summary and entries, and a finding keeps its entries', () => {
+    const report = accepted(overJson(realReports['a Jacobian with a column doubled']));
+    assert.equal(report.kind, 'jacobian');
+    assert.deepEqual(report.matrix?.diagnosis, { kind: 'columnFactor', columns: [{ index: 1, factor: 2 }] });
+    assert.ok(report.probes[0].entries!.some((e) => e.mismatch && e.row === 1 && e.column === 1));
+    assert.deepEqual(report.findings.find((f) => f.code === 'jacobian-mismatch')?.entries, [[0, 1], [1, 1]]);
+    assert.ok(accepted(overJson(realReports['a Jacobian that holds'])).matrix?.leastSquares);
+  });
+
+  test('a kind, a matrix diagnosis or an entry that is not what the types allow is refused', () => {
+    refused(altered((r) => (r.kind = 'laplacian'), realReports['a Jacobian that holds']), /report\.kind/);
+    refused(altered((r) => (r.matrix.diagnosis = { kind: 'columnFactor', columns: [{ index: -1, factor: 2 }] }), realReports['a Jacobian with a column doubled']), /report\.matrix\.diagnosis/);
+    refused(altered((r) => (r.probes[0].entries[0].row = 'one'), realReports['a Jacobian with a column doubled']), /entries\[0\]\.row/);
+    refused(altered((r) => (r.leastSquaresForm = { probeIndex: 0, objective: 'double', gradient: null })), /leastSquaresForm\.objective/);
   });
 });

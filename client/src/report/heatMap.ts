@@ -1,6 +1,6 @@
 // The error of a Jacobian or Hessian per entry, as a grid: each cell is one entry, shaded by
 // how far its analytic value lies from the difference, in units of the difference's error
-// bound, on a log scale. A cell within its bound is left pale; an undecided entry is hatched.
+// bound, on a log scale. A cell within its bound is left pale; an undecided entry is grey.
 // Pure, like plots.ts: it runs under node's test runner as in the webview.
 import { kindWording } from '../../../server/src/engine/kindWording';
 import type { ProbeReport, TargetKind } from '../../../server/src/engine/types';
@@ -46,6 +46,8 @@ export function errorHeatMap(kind: TargetKind, probe: ProbeReport | undefined, p
   ]
     .map(([state, text], i) => `<rect class="heat-cell ${state}" x="${coord(legendX)}" y="${coord(box.top + i * 20)}" width="12" height="12"/><text x="${coord(legendX + 18)}" y="${coord(box.top + i * 20 + 10)}">${esc(text)}</text>`)
     .join('');
-  const description = `${entries.filter((e) => e.mismatch).length} of ${entries.length} entries shown disagree with their differences.`;
+  const drawn = entries.filter((e) => e.row < rows && e.column < columns);
+  const beyond = entries.length - drawn.length;
+  const description = `${drawn.filter((e) => e.mismatch).length} of ${drawn.length} entries drawn disagree with their differences${beyond > 0 ? `; ${beyond} more lie beyond row or column ${largestSide - 1} and are listed in the table below` : ''}.`;
   return svgDocument('heat-map', title, description, cells + axes + legend, box);
 }

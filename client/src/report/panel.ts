@@ -55,7 +55,7 @@ class ReportPanel {
     const dist = vscode.Uri.joinPath(extensionUri, 'dist');
     this.panel = vscode.window.createWebviewPanel(
       'slopecheck.report',
-      `Gradient report: ${objective}`,
+      `Slopecheck report: ${objective}`,
       { viewColumn: vscode.ViewColumn.Beside, preserveFocus: true },
       { enableScripts: true, localResourceRoots: [dist], enableFindWidget: true },
     );
@@ -64,7 +64,7 @@ class ReportPanel {
       cspSource: webview.cspSource,
       nonce: nonceFromBytes(randomBytes(16)),
       scriptUri: webview.asWebviewUri(vscode.Uri.joinPath(dist, 'report.js')).toString(),
-      title: `Gradient report: ${objective}`,
+      title: `Slopecheck report: ${objective}`,
     });
     this.current = { type: 'loading', objective };
     webview.onDidReceiveMessage((message: FromWebview) => void this.handle(message));

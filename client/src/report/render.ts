@@ -5,15 +5,16 @@
 // first of them ran the user's code.
 import type { PairReport, ProbeReport } from '../../../server/src/engine/types';
 import type { PairReportResult } from '../../../server/src/shared/protocol';
-import { derivativeRows, describeLeastSquaresForm, errorShapeOf, functionWords, noDivergenceStep, verdictOf } from '../../../server/src/shared/wording';
+import { derivativeRows, describeLeastSquaresForm, errorShapeOf, kindWording, leastSquaresLabels, noDivergenceStep, verdictOf } from '../../../server/src/shared/wording';
 import { escapeMarkup as esc, formatBound, formatDuration, formatFigure } from './format';
+import { undecidedWording } from '../../../server/src/engine/decision';
 import { errorHeatMap } from './heatMap';
 import { descentPlot, eigenvaluePlot, gradientPlot, stepErrorPlot, worstProbeIndex } from './plots';
 
 /** What the eigenvalue plot shows, by kind: Ritz values for a gradient, an exact spectrum for the matrix kinds. */
 const spectrumCaption: Record<PairReport['kind'], string> = {
   gradient: 'Ritz values of the Lanczos iteration on Hessian-vector products.',
-  jacobian: 'Eigenvalues of JᵀJ at the probe, the Hessian of the Gauss–Newton model of ½‖r‖².',
+  jacobian: 'Ritz values of the Lanczos iteration on Hessian-vector products of ½‖r‖² (differences of Jᵀr).',
   hessian: 'Eigenvalues of the Hessian at the probe.',
   hessianVectorProduct: 'Ritz values of the Lanczos iteration on Hessian-vector products.',
 };
@@ -26,7 +27,7 @@ export function renderReport(result: PairReportResult): string {
   const worst = worstProbeIndex(report.probes);
   const studied = report.probes.find((p) => p.stepStudy);
   const withDescent = report.probes[worst]?.descent.length ? report.probes[worst] : report.probes.find((p) => p.descent.length > 0);
-  const pairName = result.gradient ? `${result.objective} / ${result.gradient}` : result.objective;
+  const pairName = result.gradient ? `${result.value} / ${result.gradient}` : result.value;
   return [
     `<header class="report-header"><h1>${esc(pairName)}</h1>`,
     `<span class="verdict verdict-${esc(report.status)}" data-status="${esc(report.status)}">${esc(verdictOf(report))}</span>`,
@@ -81,7 +82,7 @@ function findingsList(report: PairReport): string {
 function figuresTable(report: PairReport): string {
   const s = report.smoothness;
   const rate = report.learningRate;
-  const words = functionWords(report.kind);
+  const words = kindWording[report.kind];
   const leastSquares = report.matrix?.leastSquares;
   const rows: Array<[string, string]> = [
     ['Verdict', verdictOf(report)],
@@ -90,8 +91,8 @@ function figuresTable(report: PairReport): string {
     ...(report.matrix ? [['Shape of the matrix', `${report.matrix.rows} × ${report.matrix.columns}`] as [string, string]] : []),
     ...(leastSquares
       ? ([
-          ['σmax(J)²: L of the Gauss–Newton model of ½‖r‖²', formatFigure(leastSquares.sigmaMaxSquared)],
-          ['cond(JᵀJ)', leastSquares.conditionNumber === null ? 'singular to rounding' : formatFigure(leastSquares.conditionNumber)],
+          [leastSquaresLabels.sigmaMaxSquared, formatFigure(leastSquares.sigmaMaxSquared)],
+          [leastSquaresLabels.conditionNumber, leastSquares.conditionNumber === null ? leastSquaresLabels.singular : formatFigure(leastSquares.conditionNumber)],
         ] as Array<[string, string]>)
       : []),
     ...(report.leastSquaresForm ? [['Built from residuals', describeLeastSquaresForm(report.leastSquaresForm)] as [string, string]] : []),
@@ -119,7 +120,7 @@ function componentTable(report: PairReport, probe: ProbeReport): string {
       (row) =>
         `<tr class="${row.mismatch ? 'mismatch' : ''}" data-index="${esc(row.label)}">` +
         cells([row.label, formatFigure(row.analytic), formatFigure(row.numerical), formatBound(row.bound), row.relError === null ? '' : formatBound(row.relError)]) +
-        `${row.mismatch ? '<td class="mismatch-cell">✗ mismatch</td>' : '<td></td>'}</tr>`,
+        `${row.mismatch ? '<td class="mismatch-cell">✗ mismatch</td>' : row.undecided ? `<td class="undecided-cell">${esc(undecidedWording[row.undecided])}</td>` : '<td></td>'}</tr>`,
     )
     .join('');
   return `<table class="component-table">${head}<tbody>${body}</tbody></table>`;

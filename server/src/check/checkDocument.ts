@@ -4,6 +4,7 @@
 import { discoverPairs } from '../discovery/discover';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import { emptyReport } from '../engine/emptyReport';
+import { kindWording } from '../engine/kindWording';
 import type { CheckOptions, CheckPlan, Finding, PairReport, PairStatus } from '../engine/types';
 import { documentNamespace } from '../discovery/importerCalls';
 import type { SourceText } from '../discovery/importers';
@@ -111,7 +112,27 @@ export async function checkDocument(
     }
     hooks.onPairChecked?.(result.pairs.length, toCheck.length, pair.objective.name);
   }
+  judgedAgainstWrongGradients(result.pairs);
   return result;
+}
+
+/**
+ * A Hessian is checked against differences of its pair's gradient: when that gradient is itself
+ * wrong, a disagreement says nothing about the Hessian, so its mismatch becomes an undecided note
+ * pointing at the gradient (an asymmetry is still wrong whatever the gradient is).
+ */
+function judgedAgainstWrongGradients(outcomes: PairOutcome[]): void {
+  for (const { pair, report } of outcomes) {
+    const gradient = pair.gradientPair === undefined ? undefined : outcomes.find((o) => o.pair.key === pair.gradientPair);
+    if (!gradient || gradient.report.status !== 'fail' || report.status !== 'fail' || report.matrix?.asymmetry) continue;
+    const mismatch = kindWording[pair.kind].mismatchCode;
+    report.status = 'inconclusive';
+    report.findings = report.findings.map((finding) =>
+      finding.code !== mismatch
+        ? finding
+        : { code: 'matrix-undecided', severity: 'info', subject: 'gradient', message: `not judged: the ${kindWording[pair.kind].derivative} is checked against differences of \`${gradient.pair.gradient?.name ?? gradient.pair.objective.name}\`, which disagrees with its own objective; fix the gradient first (its finding says where)` },
+    );
+  }
 }
 
 /** A report for a pair that was not executed, carrying the reasons why. */

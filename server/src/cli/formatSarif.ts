@@ -22,7 +22,7 @@ export function formatSarif(outcomes: FileOutcome[], meta: { version: string; cw
         const where = finding.location
           ? { file: relativeTo(meta.cwd, finding.location.file), region: { startLine: finding.location.line, startColumn: Math.max(1, finding.location.column) } }
           : { file: outcome.path, region: spanRegion(findingSpan(pair, finding)) };
-        results.push(result(finding, where.file, where.region, `${pair.objective.name}`));
+        results.push(result(finding, where.file, where.region, pair.key));
       }
     }
   }

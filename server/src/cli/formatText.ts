@@ -7,7 +7,7 @@ import type { Finding, Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
 import { summarise } from './outcome';
 import { printableLine as shown } from '../shared/plainText';
-import { functionWords, verdictCountWords, verdictOf } from '../shared/wording';
+import { kindWording, verdictCountWords, verdictOf } from '../shared/wording';
 
 const severityWord: Record<Severity, string> = { error: 'error', warning: 'warn', info: 'note' };
 
@@ -31,7 +31,7 @@ export function formatText(outcomes: FileOutcome[]): string {
     }
     const rows = check.pairs.map(({ pair, report }) => [
       String(anchorOf<NamedSpan>(pair).nameSpan.line),
-      pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (${functionWords(pair.kind).value} and ${functionWords(pair.kind).derivative})`,
+      pair.gradient ? `${pair.objective.name} → ${pair.gradient.name}` : `${pair.objective.name} (${kindWording[pair.kind].value} and ${kindWording[pair.kind].derivative})`,
       verdictOf(report),
       sci(report.maxRelError),
       sci(report.smoothness?.lipschitz ?? null),

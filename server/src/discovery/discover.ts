@@ -32,6 +32,7 @@ export function discoverPairs(text: string, fileName: string, importers: () => r
   const importersOnce = () => (known ??= importers());
   const pairs = paired.matches.map((match) => describePair(sourceFile, bindings, types, match, learningRates.rates.get(match) ?? null, importersOnce));
   linkResiduals(paired.matches, pairs);
+  inheritProbes(paired.matches, pairs);
   return { pairs, fileFindings: [...syntaxErrors(sourceFile), ...paired.fileFindings, ...learningRates.fileFindings] };
 }
 
@@ -69,6 +70,7 @@ function describePair(
   return {
     kind: match.kind,
     key: anchorOf(match).label,
+    ...(match.gradientPair ? { gradientPair: anchorOf(match.gradientPair).label } : {}),
     objective: { ...namedSpan(sourceFile, objective), probeTags: probes.tagSpans },
     gradient: gradient
       ? { ...namedSpan(sourceFile, gradient), returnExpressions: gradient.fn ? returnedExpressions(gradient.fn).map((e) => spanOfNode(sourceFile, e)) : [] }
@@ -103,6 +105,22 @@ function linkResiduals(matches: PairMatch[], pairs: DiscoveredPair[]): void {
     if (match.kind !== 'gradient' || !objective || pairs[index].entry) return;
     const source = matches.findIndex((m) => m.kind === 'jacobian' && m.group === match.group && !pairs[matches.indexOf(m)].entry && calls(objective, m.objective.name));
     if (source >= 0) pairs[index].plan.residuals = pairs[source].plan.recipe;
+  });
+}
+
+/**
+ * A Hessian or product is checked where its gradient pair is: the pair's probes, start and
+ * dimension, when it has none of its own (a `@probe` sits above the objective, not the Hessian).
+ */
+function inheritProbes(matches: PairMatch[], pairs: DiscoveredPair[]): void {
+  matches.forEach((match, index) => {
+    if (!match.gradientPair) return;
+    const own = pairs[index];
+    const pair = pairs[matches.indexOf(match.gradientPair)];
+    if (own.plan.probes.length > 0 || own.plan.probeKeys.length > 0 || own.plan.start !== null || own.entry || pair.entry) return;
+    own.plan = { ...own.plan, probes: pair.plan.probes, probeKeys: pair.plan.probeKeys, start: pair.plan.start, dimension: own.plan.dimension ?? pair.plan.dimension };
+    own.recipeSpans = { ...pair.recipeSpans, ...own.recipeSpans };
+    own.findings = own.findings.filter((finding) => finding.code !== 'unknown-dimension' || (own.plan.dimension === null && own.plan.probes.length === 0 && own.plan.probeKeys.length === 0 && own.plan.start === null));
   });
 }
 

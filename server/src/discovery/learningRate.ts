@@ -50,7 +50,10 @@ export function assignLearningRates(
   }
 
   // 2. The update of a training loop that calls the pair, and options handed to an optimizer with it.
-  for (const match of matches) {
+  //    Gradient pairs only: a residual/Jacobian loop's step is a Gauss–Newton or Levenberg–Marquardt
+  //    step (`p -= damping * delta`), no learning rate; a Jacobian's rate is named by its tag.
+  const gradientPairs = matches.filter((match) => match.kind === 'gradient');
+  for (const match of gradientPairs) {
     for (const site of pairSites(sourceFile, match)) {
       if (rates.has(match)) break;
       if (site.kind === 'call') {
@@ -63,12 +66,12 @@ export function assignLearningRates(
   }
 
   // 3. One pair: a conventional name at module level, or a conventional field of a module-level options object.
-  if (matches.length === 1 && !rates.has(matches[0])) {
+  if (gradientPairs.length === 1 && !rates.has(gradientPairs[0])) {
     for (const binding of [...bindings.byLocalName.values()].sort((a, b) => a.nameNode.pos - b.nameNode.pos)) {
       // A const tagged for another objective is never a rate by its name.
       if (!binding.constValue || readTags(sourceFile, binding.docHost, tagNames.learningRateFor).length > 0) continue;
-      if (learningRateNames.includes(binding.localName)) give(matches[0], resolveNumber(binding.nameNode, bindings));
-      else give(matches[0], optionsRate(binding.nameNode, bindings));
+      if (learningRateNames.includes(binding.localName)) give(gradientPairs[0], resolveNumber(binding.nameNode, bindings));
+      else give(gradientPairs[0], optionsRate(binding.nameNode, bindings));
     }
   }
   return { rates, fileFindings };

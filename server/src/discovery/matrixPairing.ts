@@ -79,7 +79,8 @@ export function matchSecondOrder(pairing: GroupPairing): void {
   const gradientPairs = pairing.matches.filter((m) => m.kind === 'gradient' && m.group === group && m.gradient !== null);
   for (const naming of secondOrderNaming) {
     for (const derivative of group.callables) {
-      if (used.has(derivative) || !derivative.fn || !pairing.pointTaking(derivative)) continue;
+      // A Hessian or a product returns a matrix or a vector, never one number (`H(p): number`, an entropy).
+      if (used.has(derivative) || !derivative.fn || !pairing.pointTaking(derivative) || pairing.shapeOf(derivative).kind === 'number') continue;
       // A product takes the direction after the point.
       if (naming.kind === 'hessianVectorProduct' && derivative.fn.parameters.length < 2) continue;
       const tagged = taggedValue(pairing, derivative, naming);
@@ -95,7 +96,7 @@ export function matchSecondOrder(pairing: GroupPairing): void {
         continue;
       }
       used.add(derivative);
-      pairing.matches.push({ kind: naming.kind, group, objective: pairs[0].gradient!, gradient: derivative, split: null, matchedBy: tagged ? 'tag' : 'name', findings: [] });
+      pairing.matches.push({ kind: naming.kind, group, objective: pairs[0].gradient!, gradient: derivative, split: null, matchedBy: tagged ? 'tag' : 'name', findings: [], gradientPair: pairs[0] });
     }
   }
 }

@@ -26,6 +26,8 @@ export interface PairMatch {
   split: { value: string; derivative: string } | null;
   matchedBy: MatchedBy;
   findings: Finding[];
+  /** A Hessian or Hessian-vector product: the gradient pair it belongs to (its probes and start are the pair's). */
+  gradientPair?: PairMatch;
 }
 
 type FileFinding = DiscoveryResult['fileFindings'][number];
@@ -36,7 +38,7 @@ type FileFinding = DiscoveryResult['fileFindings'][number];
  * Hessian and a product). Its name is the target's key, its line the target's line, and a skip
  * comment goes above it.
  */
-export function anchorOf<Function>(target: { kind: TargetKind; objective: Function; gradient: Function | null }): Function {
+export function anchorOf<Named>(target: { kind: TargetKind; objective: Named; gradient: Named | null }): Named {
   return target.kind === 'gradient' || !target.gradient ? target.objective : target.gradient;
 }
 
@@ -69,10 +71,10 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
   const byName = (name: string) => group.callables.find((c) => c.names.includes(name));
   const note = (code: Finding['code'], node: ts.Node, message: string, severity: Finding['severity'] = 'info') =>
     fileFindings.push({ code, severity, subject: 'gradient', message, span: spanOfNode(sourceFile, node) });
-  const kinds: GroupPairing = { sourceFile, group, used, matches, fileFindings, shapeOf, pointTaking, note };
+  const groupPairing: GroupPairing = { sourceFile, group, used, matches, fileFindings, shapeOf, pointTaking, note };
 
   // 0. Residuals and their Jacobian, before a residual-like name can be taken for an objective.
-  matchJacobians(kinds);
+  matchJacobians(groupPairing);
 
   // 1. Tags: `@gradientOf X` on the derivative names its objective, whatever the names.
   for (const derivative of group.callables) {
@@ -163,7 +165,7 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
   }
 
   // Hessians and Hessian-vector products, next to the gradients just found.
-  matchSecondOrder(kinds);
+  matchSecondOrder(groupPairing);
 
   // 4. Nothing skipped silently: a function left unpaired that looks like a gradient — by its name, or
   //    by returning a vector from the same declared parameter as an objective left unpaired — says why.

@@ -35,6 +35,8 @@ export interface DiscoveredPair {
    * kinds, whose value function may serve several targets.
    */
   key: string;
+  /** A Hessian or Hessian-vector product: the key of the gradient pair whose gradient it is checked against. */
+  gradientPair?: string;
   objective: NamedSpan & {
     /** Each `@probe` tag's span, for related information and edits. */
     probeTags: SourceSpan[];

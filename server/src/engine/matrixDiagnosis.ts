@@ -36,7 +36,7 @@ export function diagnoseMatrix(rows: number, columns: number, entries: EntryChec
   // One wrong entry is named as such, whatever else it could be read as (the only nonzero of its column, say).
   if (wrong.length === 1) return { kind: 'entry', row: wrong[0].row, column: wrong[0].column };
   if (complete && entries.length === rows * columns) {
-    const shape = transposed(table) ?? rowShift(table) ?? lineSwap(table, wrong, 'column') ?? lineSwap(table, wrong, 'row') ?? factors(table, wrong) ?? diagonalOffset(table, wrong) ?? oneSided(table, wrong);
+    const shape = transposed(table) ?? rowShift(table, wrong) ?? lineSwap(table, wrong, 'column') ?? lineSwap(table, wrong, 'row') ?? factors(table, wrong) ?? diagonalOffset(table, wrong) ?? oneSided(table, wrong);
     if (shape) return shape;
   }
   const wrongColumns = [...new Set(wrong.map((e) => e.column))].sort((a, b) => a - b);
@@ -66,11 +66,14 @@ function transposed(table: Table): MatrixDiagnosis | null {
   return asymmetric ? { kind: 'transposed' } : null;
 }
 
-/** Row i holds output i + s's derivatives for every row that has such an output (s = ±1). */
-function rowShift(table: Table): MatrixDiagnosis | null {
+/**
+ * Row i holds output i + s's derivatives for every row that has such an output (s = ±1), and
+ * some such row is wrong (else only the edge row is, which is no shift).
+ */
+function rowShift(table: Table, wrong: EntryCheck[]): MatrixDiagnosis | null {
   if (table.rows < 3) return null;
   for (const shift of [1, -1]) {
-    let holds = true;
+    let holds = wrong.some((e) => e.row + shift >= 0 && e.row + shift < table.rows);
     for (let i = 0; i < table.rows && holds; i++) {
       const source = i + shift;
       if (source < 0 || source >= table.rows) continue;

@@ -2,6 +2,7 @@
 // a flat row-major Float64Array / number[] of rows·columns values, or an object that states its
 // shape ({ rows, columns | cols, data }). A result of another shape is a finding that names both
 // shapes, never a guess.
+import type { KindWording } from './kindWording';
 import { CheckStopped, describeSite, makeFinding, type CallSite } from './userCalls';
 
 /** A dense row-major matrix copied into plain numbers. */
@@ -9,10 +10,6 @@ export interface DenseMatrix {
   rows: number;
   columns: number;
   values: Float64Array;
-}
-
-export function entryOf(matrix: DenseMatrix, row: number, column: number): number {
-  return matrix.values[row * matrix.columns + column];
 }
 
 /** Column `column` as a new vector. */
@@ -42,6 +39,16 @@ export function times(matrix: DenseMatrix, v: ArrayLike<number>): Float64Array {
   return out;
 }
 
+/** Mᵀ·v (Jᵀr for a Jacobian and its residuals). */
+export function transposeTimes(matrix: DenseMatrix, v: ArrayLike<number>): Float64Array {
+  const out = new Float64Array(matrix.columns);
+  for (let i = 0; i < matrix.rows; i++) {
+    if (v[i] === 0) continue;
+    for (let j = 0; j < matrix.columns; j++) out[j] += matrix.values[i * matrix.columns + j] * v[i];
+  }
+  return out;
+}
+
 // Largest matrix read out of the user's realm (entries): beyond it the check stops with a finding.
 const largestMatrix = 2 ** 24;
 
@@ -50,10 +57,12 @@ const largestMatrix = 2 ** 24;
  * messages: 'Jacobian', 'Hessian'). Stops the check with a `matrix-wrong-shape` finding for
  * another shape (naming both, and saying "transposed" for columns × rows), ragged rows or a
  * value that is no matrix, and with `non-finite-value` naming the entries that are NaN or ±∞.
+ * `wording` names the matrix and its rows in messages (kindWording.ts).
  */
-export function readMatrix(result: unknown, rows: number, columns: number, noun: string, site: CallSite): DenseMatrix {
+export function readMatrix(result: unknown, rows: number, columns: number, wording: Pick<KindWording, 'derivative' | 'output'>, site: CallSite): DenseMatrix {
+  const noun = wording.derivative;
   const where = `at ${describeSite(site)}`;
-  const expected = `${rows} × ${columns} (${rows === 1 ? 'one row' : `${rows} rows`}, one per ${rowNoun(noun)}; ${columns} columns, one per coordinate of the point)`;
+  const expected = `${rows} × ${columns} (${rows === 1 ? 'one row' : `${rows} rows`}, one per ${wording.output}; ${columns} columns, one per coordinate of the point)`;
   const shape: ShapeFailures = {
     wrongShape: (seen, extra = '') => new CheckStopped(makeFinding('matrix-wrong-shape', 'gradient', `the ${noun} is ${seen} ${where}, but it must be ${expected}${extra}`, site)),
     ragged: (row, length, firstLength) => new CheckStopped(makeFinding('matrix-wrong-shape', 'gradient', `the ${noun} has ragged rows ${where}: row 0 has ${firstLength} entries but row ${row} has ${length}; it must be ${expected}`, site)),
@@ -68,17 +77,12 @@ export function readMatrix(result: unknown, rows: number, columns: number, noun:
   const bad: Array<[number, number]> = [];
   for (let k = 0; k < matrix.values.length && bad.length < 64; k++) if (!Number.isFinite(matrix.values[k])) bad.push([Math.floor(k / columns), k % columns]);
   if (bad.length > 0) {
-    const shown = bad.slice(0, 6).map(([i, j]) => `[${i}][${j}] = ${entryOf(matrix, i, j)}`).join(', ');
+    const shown = bad.slice(0, 6).map(([i, j]) => `[${i}][${j}] = ${matrix.values[i * columns + j]}`).join(', ');
     const finding = makeFinding('non-finite-value', 'gradient', `the ${noun} has non-finite entries ${where}: ${shown}${bad.length > 6 ? ` and ${bad.length - 6} more` : ''}`, site);
     finding.entries = bad;
     throw new CheckStopped(finding);
   }
   return matrix;
-}
-
-/** What a function returning a vector of outputs calls one of them. */
-function rowNoun(noun: string): string {
-  return noun === 'Jacobian' ? 'residual' : 'gradient component';
 }
 
 /** The findings a matrix of the wrong shape stops the check with. */

@@ -22,7 +22,7 @@ export interface MatrixKind {
    */
   analyticAt(calls: UserCalls, x: Float64Array, outputs: number, site: CallSite, options: CheckOptions): AnalyticMatrix;
   /** Findings and figures once the derivative is known to be right (or at least not wrong) at the probes. */
-  afterCheck?(outcomes: MatrixProbeOutcome[], report: PairReport, plan: PairPlan): void;
+  afterCheck?(outcomes: MatrixProbeOutcome[], report: PairReport, plan: PairPlan, options: CheckOptions): void;
 }
 
 // The seeded stream of each probe's random directions, apart from the drawn probes' (targetRun.ts).
@@ -52,8 +52,8 @@ function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], p
     for (let p = 1; p < points.length && !outcomes.some((o) => o.mismatch || o.cut); p++) {
       const random = () => createRandom(options.seed, directionStream + p);
       const work = laterWork(outcomes, whole, n);
-      // F and A at the probe, the repeat and the noise table, then a slice per column.
-      const expectedCalls = work.mode === 'spot' ? 3 + callsPerDerivative * (1 + work.columns.length) : firstProbeCalls;
+      // What probe 1 spent before its slices (F, A, the repeat, the noise table), then a slice per column and direction.
+      const expectedCalls = work.mode === 'spot' ? first.setupCalls + callsPerDerivative * (1 + work.columns.length) : firstProbeCalls;
       if (calls.remainingMs() < probeTimeMargin * expectedCalls * calls.meanCallMs()) {
         cutShort = true;
         break;
@@ -93,7 +93,7 @@ function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], p
     if (undecided) report.findings.push(undecided);
     if (undecided || kinked.length > 0 || unrepeatable) report.status = 'inconclusive';
   }
-  kind.afterCheck?.(outcomes, report, plan);
+  kind.afterCheck?.(outcomes, report, plan, options);
 }
 
 /** The later probes' work: one random direction, and the columns holding an entry no probe has confirmed yet. */
@@ -159,6 +159,6 @@ function nonSmoothFinding(outcome: MatrixProbeOutcome): Finding {
     severity: 'info',
     subject: 'objective',
     probeIndex: outcome.context.probeIndex,
-    message: `the value function looks non-smooth at probe ${outcome.context.probeIndex + 1} ${where}: forward and backward differences disagree and do not converge as the step shrinks, so the entries there cannot be checked`,
+    message: `the ${outcome.context.calls.roles.objective} looks non-smooth at probe ${outcome.context.probeIndex + 1} ${where}: forward and backward differences disagree and do not converge as the step shrinks, so the entries there cannot be checked`,
   };
 }

@@ -6,6 +6,11 @@ export function dot(a: ArrayLike<number>, b: ArrayLike<number>): number {
   return sum;
 }
 
+/** ½‖r‖². */
+export function halfSquaredNorm(r: ArrayLike<number>): number {
+  return 0.5 * dot(r, r);
+}
+
 export function norm2(a: ArrayLike<number>): number {
   return Math.sqrt(dot(a, a));
 }

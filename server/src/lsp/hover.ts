@@ -4,14 +4,19 @@ import type { PairOutcome } from '../check/checkDocument';
 import type { DiscoveredPair, SourceSpan } from '../discovery/types';
 import type { RateStatus } from '../engine/types';
 import { documentNamespace } from '../discovery/importerCalls';
-import { baseName, describeCall, describeLeastSquaresForm, errorShapeOf, functionWords, noDivergenceStep, shortNumber, verdictOf, withoutNamespace } from '../shared/wording';
+import { baseName, describeCall, describeLeastSquaresForm, errorShapeOf, kindWording, leastSquaresLabels, noDivergenceStep, shortNumber, verdictOf, withoutNamespace } from '../shared/wording';
 
 export type NameRole = 'objective' | 'gradient' | 'learningRate';
 
-/** The pair whose objective, gradient or learning-rate name covers `offset`. */
+/**
+ * The pair whose objective, gradient or learning-rate name covers `offset`. A gradient shared by
+ * its pair and a Hessian is its pair's: names a target is known by (its anchor) and the gradients
+ * of gradient pairs come before the value function of a Hessian or product.
+ */
 export function nameAt(pairs: DiscoveredPair[], offset: number): { pair: DiscoveredPair; role: NameRole } | null {
   const covers = (span: SourceSpan | undefined) => span !== undefined && span.start <= offset && offset <= span.end;
-  for (const pair of pairs) {
+  const ordered = [...pairs].sort((a, b) => Number(a.kind !== 'gradient') - Number(b.kind !== 'gradient'));
+  for (const pair of ordered) {
     if (covers(pair.objective.nameSpan)) return { pair, role: 'objective' };
     if (covers(pair.gradient?.nameSpan)) return { pair, role: 'gradient' };
     if (covers(pair.learningRate?.nameSpan)) return { pair, role: 'learningRate' };
@@ -30,7 +35,7 @@ const shownCoordinates = 3;
 
 /** Markdown card for a pair; `outcome` is null while no check has finished. */
 export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null, checking: boolean): string {
-  const words = functionWords(pair.kind);
+  const words = kindWording[pair.kind];
   const title = pair.gradient ? `\`${pair.objective.name}\` → \`${pair.gradient.name}\`` : `\`${pair.objective.name}\` (${words.value} and ${words.derivative})`;
   if (pair.skipped) return `**${title}** · not checked: \`// slopecheck-skip\` is above it`;
   if (!outcome) return `**${title}** · ${checking ? 'checking…' : 'not checked yet'}`;
@@ -41,9 +46,10 @@ export function hoverMarkdown(pair: DiscoveredPair, outcome: PairOutcome | null,
   if (report.maxRelError !== null) rows.push(['max relative error', shortNumber(report.maxRelError)]);
   const leastSquares = report.matrix?.leastSquares;
   if (leastSquares) {
-    rows.push(['σmax(J)², L of the Gauss–Newton model of ½‖r‖²', shortNumber(leastSquares.sigmaMaxSquared)]);
-    rows.push(['cond(JᵀJ)', leastSquares.conditionNumber === null ? 'singular to rounding' : shortNumber(leastSquares.conditionNumber)]);
-    rows.push(['gradient descent on ½‖r‖², on that model', `safe at steps ≤ 1/σmax² = ${shortNumber(1 / leastSquares.sigmaMaxSquared)}; diverges from 2/σmax² = ${shortNumber(2 / leastSquares.sigmaMaxSquared)}`]);
+    rows.push([leastSquaresLabels.sigmaMaxSquared, shortNumber(leastSquares.sigmaMaxSquared)]);
+    rows.push([leastSquaresLabels.conditionNumber, leastSquares.conditionNumber === null ? leastSquaresLabels.singular : shortNumber(leastSquares.conditionNumber)]);
+    // J ≡ 0 has no curvature to bound a step by.
+    if (leastSquares.sigmaMaxSquared > 0) rows.push(['gradient descent on ½‖r‖², on that model', `safe at steps ≤ 1/σmax² = ${shortNumber(1 / leastSquares.sigmaMaxSquared)}; diverges from 2/σmax² = ${shortNumber(2 / leastSquares.sigmaMaxSquared)}`]);
   }
   if (s) {
     rows.push(['L̂ (local Lipschitz estimate)', shortNumber(s.lipschitz)]);

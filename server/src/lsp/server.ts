@@ -172,6 +172,8 @@ export function startServer(connection: Connection): void {
     if (!document) return [];
     return pairsOf(document).map((pair) => ({
       objective: pair.key,
+      kind: pair.kind,
+      value: pair.objective.name,
       gradient: pair.gradient?.name ?? null,
       line: anchorOf<NamedSpan>(pair).nameSpan.startLine,
       status: checks.outcome(uri, pair.key)?.report.status ?? 'pending',
@@ -186,6 +188,7 @@ export function startServer(connection: Connection): void {
     return {
       uri,
       objective,
+      value: outcome.pair.objective.name,
       gradient: outcome.pair.gradient?.name ?? null,
       line: anchorOf<NamedSpan>(outcome.pair).nameSpan.startLine,
       report: outcome.report,

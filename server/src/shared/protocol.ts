@@ -1,7 +1,7 @@
 // The custom LSP messages between the VS Code client and the Slopecheck server.
 // Both sides import this file; every method shares the `slopecheck/` prefix.
 import type { DocumentCheckSummary } from './summary';
-import type { PairReport } from '../engine/types';
+import type { PairReport, TargetKind } from '../engine/types';
 
 /** Sent by the client as `initializationOptions`. */
 export interface InitializationOptions {
@@ -39,15 +39,22 @@ export interface PairReportParams {
 export interface PairListing {
   /** The target's key: its objective's name for a gradient pair, its derivative's (a Jacobian's, a Hessian's) for the other kinds. */
   objective: string;
+  /** What is checked; the two functions are named by kindWording. */
+  kind: TargetKind;
+  /** The value function's name (the objective, the residual function, the gradient of a Hessian). */
+  value: string;
   gradient: string | null;
-  /** 0-based line of the objective's name. */
+  /** 0-based line of the name the target is known by. */
   line: number;
   status: PairReport['status'] | 'pending';
 }
 
 export interface PairReportResult {
   uri: string;
+  /** The target's key. */
   objective: string;
+  /** The value function's name. */
+  value: string;
   gradient: string | null;
   line: number;
   report: PairReport;

@@ -67,7 +67,7 @@ export const verdictCountWords: Record<PairStatus, string> = {
 
 /** A target's verdict in its own words: "Jacobian matches", "Hessian wrong", "undecided". */
 export function verdictOf(report: Pick<PairReport, 'kind' | 'status'>): string {
-  const derivative = kindWording[report.kind ?? 'gradient'].derivative;
+  const derivative = kindWording[report.kind].derivative;
   if (report.status === 'pass') return `${derivative} matches`;
   if (report.status === 'fail') return `${derivative} wrong`;
   return verdictWords[report.status];
@@ -79,11 +79,12 @@ export function errorShapeOf(report: Pick<PairReport, 'kind' | 'diagnosis' | 'ma
   return report.diagnosis ? describeDiagnosis(report.diagnosis) : null;
 }
 
-/** "residual function and Jacobian", for sentences about a target's two functions. */
-export function functionWords(kind: TargetKind): { value: string; derivative: string } {
-  const { value, derivative } = kindWording[kind];
-  return { value, derivative };
-}
+/** The labels of a Jacobian's least-squares figures, one wording for the hover and the report. */
+export const leastSquaresLabels = {
+  sigmaMaxSquared: 'σmax(J)², L of the Gauss–Newton model of ½‖r‖²',
+  conditionNumber: 'cond(JᵀJ)',
+  singular: 'singular to rounding',
+} as const;
 
 /** One compared derivative as every table shows it, whatever the kind. */
 export interface DerivativeRow {

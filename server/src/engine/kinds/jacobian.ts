@@ -5,30 +5,35 @@
 // gradient pair's is, on f = ½‖r‖² with gradient Jᵀr: the model leaves out Σ rᵢ∇²rᵢ, which far
 // from a fit can move the curvature either way.
 import { estimateSmoothness, type PairFunctions } from '../checkPair';
-import { readMatrix, times, type DenseMatrix } from '../matrixRead';
+import { kindWording } from '../kindWording';
+import { lanczosExtremes } from '../lanczos';
+import { readMatrix, times, transposeTimes, type DenseMatrix } from '../matrixRead';
 import type { MatrixKind } from '../matrixTarget';
 import type { MatrixProbeContext } from '../matrixProbe';
 import type { ProbeContext } from '../probeContext';
-import { defaultCheckOptions } from '../types';
+import type { CheckOptions } from '../types';
 import { symmetricEigenvalues } from '../symmetricEigen';
 import { createUserCalls, type CallSite, type UserCalls } from '../userCalls';
+import { halfSquaredNorm } from '../vectors';
 
 // JᵀJ counts as singular when σmin² is below this share of σmax² (rounding of a product of J with itself; common practice).
 const singularShare = 1e-14;
 
+// JᵀJ's spectrum is exact (Jacobi) up to this many coordinates, O(n³); above, Lanczos on JᵀJ·v.
+const exactSpectrumLimit = 200;
+
 export const jacobianKind: MatrixKind = {
   kind: 'jacobian',
   analyticAt(calls, x, outputs, site) {
-    const dense = readMatrix(calls.derivativeResult(x, site), outputs, x.length, 'Jacobian', site);
+    const dense = readMatrix(calls.derivativeResult(x, site), outputs, x.length, kindWording.jacobian, site);
     return { dense, times: (v) => times(dense, v) };
   },
-  afterCheck(outcomes, report, plan) {
+  afterCheck(outcomes, report, plan, options) {
     if (report.status === 'fail' || report.status === 'error') return;
     const held = outcomes.find((o) => o.complete && o.context.analytic.dense);
     const jacobian = held?.context.analytic.dense;
     if (!held || !jacobian) return;
-    const eigenvalues = symmetricEigenvalues(normalMatrix(jacobian), jacobian.columns);
-    const [smallest, largest] = [Math.max(0, eigenvalues[0]), eigenvalues[eigenvalues.length - 1]];
+    const { smallest, largest } = normalSpectrum(jacobian, options);
     report.matrix!.leastSquares = {
       probeIndex: held.context.probeIndex,
       sigmaMaxSquared: largest,
@@ -36,9 +41,21 @@ export const jacobianKind: MatrixKind = {
       conditionNumber: smallest > singularShare * largest ? largest / smallest : null,
     };
     const { calls, context } = halfSquares(held.context);
-    estimateSmoothness(calls, context, held.report, plan, { ...defaultCheckOptions, ...plan.options }, report);
+    estimateSmoothness(calls, context, held.report, plan, options, report);
   },
 };
+
+/** The extreme eigenvalues of JᵀJ: σmin(J)² (0 when negative by rounding) and σmax(J)². */
+function normalSpectrum(jacobian: DenseMatrix, options: CheckOptions): { smallest: number; largest: number } {
+  const n = jacobian.columns;
+  if (n <= exactSpectrumLimit) {
+    const eigenvalues = symmetricEigenvalues(normalMatrix(jacobian), n);
+    return { smallest: Math.max(0, eigenvalues[0]), largest: eigenvalues[n - 1] };
+  }
+  const start = Float64Array.from({ length: n }, (_, j) => 1 + ((j * 7919) % 13) / 13);
+  const lanczos = lanczosExtremes((v) => transposeTimes(jacobian, times(jacobian, v)), start, options.lanczosSteps);
+  return { smallest: Math.max(0, lanczos?.lambdaMin ?? 0), largest: lanczos?.lambdaMax ?? 0 };
+}
 
 /** JᵀJ, row-major n × n (the upper triangle, which the eigenvalue routine reads). */
 function normalMatrix(jacobian: DenseMatrix): Float64Array {
@@ -61,30 +78,18 @@ function normalMatrix(jacobian: DenseMatrix): Float64Array {
 function halfSquares(context: MatrixProbeContext): { calls: UserCalls; context: ProbeContext } {
   const inner = context.calls;
   const site: CallSite = { probeIndex: context.probeIndex, point: 'a curvature point' };
-  const value = (r: Float64Array) => 0.5 * r.reduce((sum, v) => sum + v * v, 0);
-  const gradient = (x: Float64Array): Float64Array => {
-    const r = inner.outputs(x, site);
-    const jacobian = readMatrix(inner.derivativeResult(x, site), r.length, x.length, 'Jacobian', site);
-    const g = new Float64Array(x.length);
-    for (let i = 0; i < r.length; i++) for (let j = 0; j < x.length; j++) g[j] += jacobian.values[i * x.length + j] * r[i];
-    return g;
-  };
   const fns: PairFunctions = {
-    objective: (x) => value(inner.outputs(x as Float64Array, site)),
-    gradient: (x) => gradient(x as Float64Array),
+    objective: (x) => halfSquaredNorm(inner.outputs(x as Float64Array, site)),
+    gradient: (x) => {
+      const r = inner.outputs(x as Float64Array, site);
+      return transposeTimes(readMatrix(inner.derivativeResult(x as Float64Array, site), r.length, context.x.length, kindWording.jacobian, site), r);
+    },
     makeVector: (values) => Float64Array.from(values),
   };
   const calls = createUserCalls(fns, context.x.length, { clock: () => 0, endsAt: null }, { objective: '½‖r‖² of the residual function', gradient: 'Jᵀr' });
   const r = context.values;
   // The noise of ½‖r‖² from the residuals', to first order: Σ |rᵢ|·σᵢ.
-  const noise = r.reduce((sum, v, i) => sum + Math.abs(v) * context.noise[i], 0) + 2 ** -52 * value(r);
-  const jtr = times(transpose(context.analytic.dense!), r);
-  return { calls, context: { calls, probeIndex: context.probeIndex, x: context.x, value: value(r), gradient: jtr, noise, gradientUnit: 2 ** -52, curvatureSeen: 0 } };
+  const noise = r.reduce((sum, v, i) => sum + Math.abs(v) * context.noise[i], 0) + 2 ** -52 * halfSquaredNorm(r);
+  const gradient = transposeTimes(context.analytic.dense!, r);
+  return { calls, context: { calls, probeIndex: context.probeIndex, x: context.x, value: halfSquaredNorm(r), gradient, noise, gradientUnit: 2 ** -52, curvatureSeen: 0 } };
 }
-
-function transpose(matrix: DenseMatrix): DenseMatrix {
-  const values = new Float64Array(matrix.values.length);
-  for (let i = 0; i < matrix.rows; i++) for (let j = 0; j < matrix.columns; j++) values[j * matrix.rows + i] = matrix.values[i * matrix.columns + j];
-  return { rows: matrix.columns, columns: matrix.rows, values };
-}
-
