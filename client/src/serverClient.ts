@@ -3,9 +3,10 @@
 import * as vscode from 'vscode';
 import { CloseAction, LanguageClient, State, TransportKind, type ErrorHandler } from 'vscode-languageclient/node';
 import { methods, type DocumentSummaryParams, type InitializationOptions } from '../../server/src/shared/protocol';
+import { checkedLanguages } from './languages';
 import type { ServerHealth } from './statusText';
 
-const documentSelector = ['typescript', 'javascript', 'typescriptreact', 'javascriptreact'].map((language) => ({ scheme: 'file', language }));
+const documentSelector = checkedLanguages.map((language) => ({ scheme: 'file', language }));
 
 export class ServerNotRunning extends Error {}
 

@@ -3,10 +3,10 @@
 import * as vscode from 'vscode';
 import type { DocumentSummaryParams } from '../../server/src/shared/protocol';
 import { commandIds } from './commandIds';
+import { checkedLanguages } from './languages';
 import type { ServerConnection } from './serverClient';
 import { statusView } from './statusText';
 
-const checkedLanguages = new Set(['typescript', 'javascript', 'typescriptreact', 'javascriptreact']);
 
 export class StatusBar implements vscode.Disposable {
   private readonly item = vscode.window.createStatusBarItem('slopecheck.status', vscode.StatusBarAlignment.Left, 10);
@@ -30,7 +30,7 @@ export class StatusBar implements vscode.Disposable {
 
   refresh(): void {
     const document = vscode.window.activeTextEditor?.document;
-    const relevant = document !== undefined && checkedLanguages.has(document.languageId);
+    const relevant = document !== undefined && checkedLanguages.includes(document.languageId);
     // A stopped server is worth showing whatever file is open; otherwise stay out of unrelated files.
     if (!relevant && this.server.health !== 'stopped') {
       this.item.hide();

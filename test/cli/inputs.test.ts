@@ -63,3 +63,13 @@ test('a clean file exits 0; text output names the pair', async () => {
   assert.equal(run.code, 0, run.stderr);
   assert.match(run.stdout, /spread → spreadGrad\s+gradient matches/);
 });
+
+test('a folder\'s .tsx and .jsx files are checked too, JSX and all', async () => {
+  const folder = mkdtempSync(path.join(os.tmpdir(), 'slopecheck-jsx-'));
+  const component = 'export const Label = (props: { text: string }) => <span>{props.text}</span>;\n';
+  writeFileSync(path.join(folder, 'Chart.tsx'), goodModule + component);
+  writeFileSync(path.join(folder, 'Legend.jsx'), goodModule.replace(/: number\[\]|: number/g, '').replace(/spread/g, 'legendSpread') + 'export const Key = (props) => <b>{props.name}</b>;\n');
+  const run = await runCli(['--format', 'json', folder]);
+  const files = JSON.parse(run.stdout).files.map((file: any) => [path.basename(file.path), file.pairs.map((p: any) => [p.objective, p.status])]);
+  assert.deepEqual(files.sort(), [['Chart.tsx', [['spread', 'pass']]], ['Legend.jsx', [['legendSpread', 'pass']]]]);
+});

@@ -5,6 +5,7 @@ import { readdirSync, readFileSync } from 'node:fs';
 import * as path from 'node:path';
 import { describe, test } from 'node:test';
 import { commandIds } from '../../client/src/commandIds';
+import { checkedLanguages } from '../../client/src/languages';
 import { defaultSettings, readSettings, type SlopecheckSettings } from '../../server/src/shared/settings';
 import { repoRoot } from '../support/paths';
 
@@ -85,8 +86,7 @@ describe('commands', () => {
     const palette: Array<{ command: string; when: string }> = manifest.contributes.menus.commandPalette;
     for (const entry of palette) {
       assert.ok(Object.values(commandIds).includes(entry.command as never), entry.command);
-      assert.match(entry.when, /editorLangId == typescript/);
-      assert.match(entry.when, /editorLangId == javascript/);
+      for (const language of checkedLanguages) assert.ok(entry.when.split(' || ').includes(`editorLangId == ${language}`), `${entry.command}: ${language}`);
     }
     assert.ok(palette.some((entry) => entry.command === commandIds.checkObjective));
   });
@@ -105,8 +105,9 @@ describe('commands', () => {
 });
 
 describe('activation and trust', () => {
-  test('activates on TypeScript and JavaScript and runs dist/extension.js', () => {
-    assert.deepEqual([...manifest.activationEvents].sort(), ['onLanguage:javascript', 'onLanguage:typescript']);
+  test('activates on every checked language (TypeScript and JavaScript, with JSX too) and runs dist/extension.js', () => {
+    assert.deepEqual([...manifest.activationEvents].sort(), checkedLanguages.map((language) => `onLanguage:${language}`).sort());
+    assert.ok(manifest.activationEvents.includes('onLanguage:typescriptreact'));
     assert.equal(manifest.main, './dist/extension.js');
   });
 

@@ -15,7 +15,7 @@ export interface CliArguments {
 export const usage = `Usage: slopecheck [--format text|json|sarif] [--seed N] [--timeout-ms N] [--smoothness] <files or folders...>
 
 Checks the objective/gradient pairs, residual/Jacobian pairs, Hessians and
-Hessian-vector products of the given .ts and .js files (module-level functions,
+Hessian-vector products of the given .ts, .tsx, .js and .jsx files (module-level functions,
 exported or not, and methods of module-level objects; folders are searched
 recursively, node_modules skipped). Checking a file runs its code in a sandbox
 process.

@@ -2,7 +2,7 @@
 import { promises as fs } from 'node:fs';
 import * as path from 'node:path';
 
-const checkedExtensions = /\.(ts|mts|cts|js|mjs|cjs)$/;
+const checkedExtensions = /\.(ts|mts|cts|tsx|js|mjs|cjs|jsx)$/;
 const skippedFolders = new Set(['node_modules', '.git']);
 
 export interface CollectedFiles {
