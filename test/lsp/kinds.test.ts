@@ -45,7 +45,7 @@ test('a Jacobian with swapped columns: one diagnostic on its name, in the user\'
   const outcome = kilnOutcome(true);
   assert.equal(outcome.pair.kind, 'jacobian');
   const check: DocumentCheck = { fileName: '/w/kiln.ts', pairs: [outcome], fileFindings: [], skipped: [] };
-  const diagnostics = toDiagnostics(check, { uri: 'file:///w/kiln.ts', text: kilnText(true), relatedInformation: true });
+  const diagnostics = toDiagnostics(check, { uri: 'file:///w/kiln.ts', text: kilnText(true), relatedInformation: true, readme: 'file:///ext/README.md' });
   assert.equal(diagnostics.length, 1);
   const [diagnostic] = diagnostics;
   assert.equal(diagnostic.code, 'jacobian-mismatch');

@@ -117,7 +117,7 @@ test('per-probe mismatches merge into one diagnostic with the worst probe; runti
     ],
   }));
   const check: DocumentCheck = { fileName: '/w/fit.ts', pairs: [outcome], fileFindings: [], skipped: [] };
-  const diagnostics = toDiagnostics(check, { uri: 'file:///w/fit.ts', text: pairText, relatedInformation: true });
+  const diagnostics = toDiagnostics(check, { uri: 'file:///w/fit.ts', text: pairText, relatedInformation: true, readme: 'file:///ext/README.md' });
   assert.equal(diagnostics.length, 2);
   const [merged, thrown] = diagnostics;
   assert.equal(merged.message, 'fitGrad disagrees with central differences of fit at probe 2: sign flipped. Component 0: analytic 48, numerical -48 ± 1e-12. Seen at 2 of 2 probes.');
@@ -184,7 +184,7 @@ test('the CLI and the editor word a mismatch alike: the engine\'s finding and th
     const checked = checkPair({ objective: (x) => 0.5 * (x[0] ** 2 + x[1] ** 2 + x[2] ** 2), gradient, makeVector: (v) => Array.from(v) }, [[1, 2, 3]], { dimension: null, learningRate: null, options: defaultCheckOptions });
     const cli = checked.findings.find((f) => f.code === 'gradient-mismatch')!.message;
     assert.match(cli, shape);
-    const [editor] = toDiagnostics({ fileName: '/w/fit.ts', pairs: [outcomeOf(pairText, checked)], fileFindings: [], skipped: [] }, { uri: 'file:///w/fit.ts', text: pairText, relatedInformation: false });
+    const [editor] = toDiagnostics({ fileName: '/w/fit.ts', pairs: [outcomeOf(pairText, checked)], fileFindings: [], skipped: [] }, { uri: 'file:///w/fit.ts', text: pairText, relatedInformation: false, readme: 'file:///ext/README.md' });
     assert.equal(editor.message, cli.replace('the gradient disagrees with central differences', 'fitGrad disagrees with central differences of fit'));
     const outcome = outcomeOf(pairText, checked);
     assert.match(hoverMarkdown(outcome.pair, outcome, false), shape);

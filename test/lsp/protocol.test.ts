@@ -8,7 +8,7 @@ import * as path from 'node:path';
 import { after, describe, test } from 'node:test';
 import type { CodeAction, CodeLens, Diagnostic, Hover } from 'vscode-languageserver-protocol';
 import { pathToFileURL } from 'node:url';
-import { fixturesDir } from '../support/paths';
+import { fixturesDir, repoRoot } from '../support/paths';
 import { applyEdits, messageOf, rangeOf, TestClient } from './client';
 
 const demo = (name: string) => path.join(fixturesDir, 'demo', 'src', name);
@@ -60,7 +60,8 @@ describe('a client that declares nothing and sends no settings', () => {
     assert.deepEqual(sign.range, rangeOf(text, 'thermistorFit_grad'));
     assert.equal(sign.severity, 1);
     assert.equal(sign.source, 'slopecheck');
-    assert.match(sign.codeDescription!.href, /README\.md#gradient-mismatch$/);
+    // The link goes to the README beside the running dist/, not to a web page.
+    assert.equal(sign.codeDescription!.href, `${pathToFileURL(path.join(repoRoot, 'README.md')).href}#gradient-mismatch`);
     assert.match(messageOf(sign), /sign flipped/);
     assert.match(messageOf(sign), /analytic .*numerical/);
     // The check stops at the first probe with a mismatch, so there is no tally of probes.

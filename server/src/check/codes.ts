@@ -1,8 +1,6 @@
-// One description per finding code. The CLI's SARIF rules, the README's
-// finding reference and the editor's diagnostic links all come from here.
+// One description per finding code. The CLI's SARIF rules and the editor's diagnostic links (to
+// the README shipped with the extension, whose finding reference has a section per code) come from here.
 import type { FindingCode } from '../engine/types';
-
-export const readmeUrl = 'https://github.com/slopecheck/slopecheck/blob/main/README.md';
 
 export const findingTitles: Record<FindingCode, string> = {
   'gradient-mismatch': 'The gradient disagrees with central differences of the objective beyond their error bound.',
@@ -45,9 +43,9 @@ export const findingTitles: Record<FindingCode, string> = {
   'rate-unconfirmed': 'A short run of gradient steps at the declared rate did not behave as the smoothness estimate predicts.',
 };
 
-/** Link to a code's section in the README (the heading is the code itself). */
-export function findingHelpUrl(code: FindingCode): string {
-  return `${readmeUrl}#${code}`;
+/** Link to a code's section in the README at `readme` (the heading is the code itself). */
+export function findingHelpUrl(code: FindingCode, readme: string): string {
+  return `${readme}#${code}`;
 }
 
 export const allFindingCodes = Object.keys(findingTitles) as FindingCode[];

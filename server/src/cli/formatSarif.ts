@@ -3,7 +3,7 @@
 import * as path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { findingSpan } from '../check/checkDocument';
-import { allFindingCodes, findingHelpUrl, findingTitles } from '../check/codes';
+import { allFindingCodes, findingTitles } from '../check/codes';
 import type { SourceSpan } from '../discovery/types';
 import type { Finding, Severity } from '../engine/types';
 import type { FileOutcome } from './outcome';
@@ -37,11 +37,11 @@ export function formatSarif(outcomes: FileOutcome[], meta: { version: string; cw
             driver: {
               name: 'Slopecheck',
               version: meta.version,
-              informationUri: findingHelpUrl('gradient-mismatch').replace(/#.*$/, ''),
+              // No link: a code-scanning service shows the rule's own text; the README ships with the tool.
               rules: allFindingCodes.map((code) => ({
                 id: code,
                 shortDescription: { text: findingTitles[code] },
-                helpUri: findingHelpUrl(code),
+                help: { text: `${findingTitles[code]} See the section \`${code}\` under Findings in the README that ships with Slopecheck.` },
               })),
             },
           },

@@ -21,6 +21,8 @@ export interface DiagnosticContext {
   text: string;
   /** The client shows related information (publishDiagnostics.relatedInformation). */
   relatedInformation: boolean;
+  /** URL of the README the codes link to (shippedReadmeUrl). */
+  readme: string;
 }
 
 const severities: Record<Severity, DiagnosticSeverity> = {
@@ -30,7 +32,7 @@ const severities: Record<Severity, DiagnosticSeverity> = {
 };
 
 export function toDiagnostics(check: DocumentCheck, context: DiagnosticContext): Diagnostic[] {
-  const diagnostics = check.fileFindings.map((finding) => diagnostic(finding, finding.message, toRange(finding.span)));
+  const diagnostics = check.fileFindings.map((finding) => diagnostic(finding, finding.message, toRange(finding.span), context.readme));
   for (const outcome of check.pairs) diagnostics.push(...pairDiagnostics(check.fileName, outcome, context));
   return diagnostics;
 }
@@ -46,7 +48,7 @@ function pairDiagnostics(fileName: string, outcome: PairOutcome, context: Diagno
   return [...groups.values()].map(({ range, findings }) => {
     const lead = worstFinding(outcome, findings);
     const message = lead.code === kindWording[outcome.pair.kind].mismatchCode ? mismatchDiagnostic(outcome, lead, findings) : withRepeats(lead.message, findings, outcome);
-    const result = diagnostic(lead, message, range);
+    const result = diagnostic(lead, message, range, context.readme);
     result.data = { objective: outcome.pair.key } satisfies DiagnosticData;
     if (context.relatedInformation) {
       const related = relatedInformation(outcome, lead, context.uri);
@@ -56,13 +58,13 @@ function pairDiagnostics(fileName: string, outcome: PairOutcome, context: Diagno
   });
 }
 
-function diagnostic(finding: Finding, message: string, range: Range): Diagnostic {
+function diagnostic(finding: Finding, message: string, range: Range, readme: string): Diagnostic {
   return {
     range,
     severity: severities[finding.severity],
     source: diagnosticSource,
     code: finding.code,
-    codeDescription: { href: findingHelpUrl(finding.code) },
+    codeDescription: { href: findingHelpUrl(finding.code, readme) },
     message,
   };
 }

@@ -12,7 +12,7 @@ import { anchorOf } from '../discovery/pairing';
 import type { NamedSpan } from '../discovery/types';
 import { isInside } from '../sandbox/confine';
 import { SandboxPool } from '../sandbox/pool';
-import { productVersion, sandboxScriptPath } from '../shared/productInfo';
+import { productVersion, sandboxScriptPath, shippedReadmeUrl } from '../shared/productInfo';
 import {
   methods, type CheckAgainResult, type DocumentParams, type InitializationOptions, type PairListing, type PairReportParams, type PairReportResult, type SetTrustParams,
 } from '../shared/protocol';
@@ -26,6 +26,9 @@ import { hoverMarkdown, nameAt } from './hover';
 import { PatchVerifier } from './patchVerifier';
 import { SettingsSource } from './settingsSource';
 import { WorkspaceSources } from './workspaceSources';
+
+// Diagnostic codes link to their section of the README shipped beside dist/.
+const shippedReadme = shippedReadmeUrl();
 
 export function startServer(connection: Connection): void {
   const documents = new TextDocuments(TextDocument);
@@ -64,7 +67,7 @@ export function startServer(connection: Connection): void {
       settings: () => settings.current,
       trusted: () => trusted,
       publish: (uri, result) => {
-        const diagnostics = result ? toDiagnostics(result.check, { uri, text: result.text, relatedInformation }) : [];
+        const diagnostics = result ? toDiagnostics(result.check, { uri, text: result.text, relatedInformation, readme: shippedReadme }) : [];
         void connection.sendDiagnostics({ uri, version: result?.version, diagnostics });
         if (codeLensRefresh) void connection.sendRequest(CodeLensRefreshRequest.type).catch(() => undefined);
       },
