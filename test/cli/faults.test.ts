@@ -31,10 +31,10 @@ describe('slopecheck over fixtures/faults', () => {
     // A copy, run from its own folder: a canary written by an escape would land here.
     workDir = mkdtempSync(path.join(os.tmpdir(), 'slopecheck-faults-'));
     cpSync(path.join(fixturesDir, 'faults'), workDir, { recursive: true });
-    // The time limit must leave the memory blow-up room to reach the 512 MB cap first: near the
-    // cap, V8's repeated full collections take seconds (measured: 3.5 s alone, more with the
-    // other faults running beside it), and a timeout there would hide the memory-limit.
-    const run = await runCli(['--format', 'json', '--timeout-ms', '10000', '.'], { cwd: workDir, timeoutMs: 180_000 });
+    // The memory blow-up must reach its cap before the time limit, whatever else the machine is
+    // doing: near a cap V8's repeated full collections take seconds (3.5 s measured at 512 MB, alone),
+    // so the cap is the smallest allowed and the time limit generous; the hang then waits it out.
+    const run = await runCli(['--format', 'json', '--memory-mb', '128', '--timeout-ms', '30000', '.'], { cwd: workDir, timeoutMs: 300_000 });
     code = run.code;
     files = JSON.parse(run.stdout).files;
   });

@@ -1,5 +1,5 @@
 // Command-line arguments of `slopecheck`.
-import { defaultSettings } from '../shared/settings';
+import { defaultSettings, memoryFloorMb } from '../shared/settings';
 export type OutputFormat = 'text' | 'json' | 'sarif';
 
 export interface CliArguments {
@@ -8,11 +8,13 @@ export interface CliArguments {
   timeoutMs: number;
   /** Estimate L̂ and the safe step for every passing pair, not only those with a declared learning rate. */
   smoothness: boolean;
+  /** Memory of one sandbox process, in MB (the editor's memoryMb setting). */
+  memoryMb: number;
   /** Files and folders to check, as given. */
   paths: string[];
 }
 
-export const usage = `Usage: slopecheck [--format text|json|sarif] [--seed N] [--timeout-ms N] [--smoothness] <files or folders...>
+export const usage = `Usage: slopecheck [--format text|json|sarif] [--seed N] [--timeout-ms N] [--memory-mb N] [--smoothness] <files or folders...>
 
 Checks the objective/gradient pairs, residual/Jacobian pairs, Hessians and
 Hessian-vector products of the given .ts, .tsx, .js and .jsx files (module-level functions,
@@ -23,6 +25,7 @@ process.
   --format      text (default), json or sarif; json and sarif go to stdout alone
   --seed        seed of the random probes and directions (default 1)
   --timeout-ms  time budget for checking one pair, in milliseconds (default ${defaultSettings.timeoutMs})
+  --memory-mb   memory of one sandbox process, in MB (default ${defaultSettings.memoryMb}, at least ${memoryFloorMb})
   --smoothness  estimate L̂ and the safe step 1/L̂ for every passing target; without it,
                 only targets with a declared learning rate get them
   --help        show this text
@@ -33,7 +36,7 @@ export class UsageError extends Error {}
 
 /** Parses argv (without node and script); throws UsageError with a message fit for the user. */
 export function parseArguments(argv: string[]): CliArguments | 'help' {
-  const result: CliArguments = { format: 'text', seed: 1, timeoutMs: defaultSettings.timeoutMs, smoothness: false, paths: [] };
+  const result: CliArguments = { format: 'text', seed: 1, timeoutMs: defaultSettings.timeoutMs, smoothness: false, memoryMb: defaultSettings.memoryMb, paths: [] };
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
     const [flag, inlineValue] = arg.startsWith('--') && arg.includes('=') ? [arg.slice(0, arg.indexOf('=')), arg.slice(arg.indexOf('=') + 1)] : [arg, undefined];
@@ -57,6 +60,9 @@ export function parseArguments(argv: string[]): CliArguments | 'help' {
         break;
       case '--timeout-ms':
         result.timeoutMs = integer(flag, value(), 1);
+        break;
+      case '--memory-mb':
+        result.memoryMb = integer(flag, value(), memoryFloorMb);
         break;
       case '--smoothness':
         if (inlineValue !== undefined) throw new UsageError('--smoothness takes no value');

@@ -52,7 +52,7 @@ async function checkFiles(files: string[], args: CliArguments): Promise<FileOutc
   const sources: SourceText[] = [...texts].flatMap(([file, text]) => (typeof text === 'string' ? [{ fileName: path.resolve(file), text }] : []));
   const importers = new ImporterIndex(sources);
   const workers = Math.max(1, Math.min(files.length, os.availableParallelism?.() ?? os.cpus().length, 4));
-  const pool = new SandboxPool({ sandboxScript: sandboxScriptPath(), timeoutMs: args.timeoutMs, size: workers });
+  const pool = new SandboxPool({ sandboxScript: sandboxScriptPath(), timeoutMs: args.timeoutMs, memoryMb: args.memoryMb, size: workers });
   const options = { ...defaultCheckOptions, seed: args.seed, smoothness: args.smoothness };
   const outcomes: FileOutcome[] = [];
   const progress = process.stderr.isTTY ? (text: string) => process.stderr.write(`\r\x1b[K${text}`) : () => {};

@@ -18,6 +18,9 @@ export interface SlopecheckSettings {
   fullCheckMaxDimension: number;
 }
 
+/** The least memory a sandbox process may be given, in MB: it boots in about 60. */
+export const memoryFloorMb = 128;
+
 export const defaultSettings: SlopecheckSettings = {
   checkWhen: 'openAndSave',
   typingDelayMs: 600,
@@ -40,7 +43,7 @@ export function readSettings(raw: unknown): SlopecheckSettings {
     checkWhen: given.checkWhen === 'typing' ? 'typing' : 'openAndSave',
     typingDelayMs: number('typingDelayMs', 0, 60_000),
     timeoutMs: number('timeoutMs', 100, 600_000),
-    memoryMb: number('memoryMb', 128, 16_384),
+    memoryMb: number('memoryMb', memoryFloorMb, 16_384),
     probeCount: Math.round(number('probeCount', 1, 50)),
     seed: Math.round(number('seed', 0, 2 ** 31)),
     fullCheckMaxDimension: Math.round(number('fullCheckMaxDimension', 1, 10_000)),
