@@ -114,3 +114,17 @@ test('a gradient pair whose objective calls the residual function carries its re
   assert.deepEqual(misfit.plan.residuals, pairs.find((p) => p.kind === 'jacobian')!.plan.recipe);
   assert.equal(pairs.find((p) => p.key === 'prior')!.plan.residuals, undefined);
 });
+
+test('a matrix-returning function beside a vector-returning one, both unnamed as such, gets a note with the tag that pairs them', () => {
+  const text = source(
+    'export function driftErrors(theta: number[], run: { t: number[] }): number[] { return run.t.map((t) => theta[0] * t); }',
+    'export function driftSensitivity(theta: number[], run: { t: number[] }): number[][] { return run.t.map((t) => [t]); }',
+  );
+  const result = discoverPairs(text, 'fit.ts');
+  assert.deepEqual(result.pairs, []);
+  assert.deepEqual(fileFindingCodes(result), ['unpaired-function']);
+  assert.match(result.fileFindings[0].message, /`driftSensitivity` returns a matrix from the same parameter as `driftErrors`.*@jacobianOf driftErrors/);
+  const tagged = discoverPairs(text.replace('export function driftSensitivity', '/** @jacobianOf driftErrors */\nexport function driftSensitivity'), 'fit.ts');
+  assert.deepEqual(tagged.pairs.map((p) => p.kind), ['jacobian']);
+  assert.deepEqual(fileFindingCodes(tagged), []);
+});

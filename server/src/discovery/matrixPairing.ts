@@ -9,7 +9,7 @@ import {
   combinedJacobianKeys, combinedResidualKeys, isCombinedJacobianName, isResidualName, matrixKindNaming, residualNamesFor, type MatrixKindNaming,
 } from './conventions';
 import type { PairMatch } from './pairing';
-import type { ReturnShape } from './signatures';
+import { firstParameterText, type ReturnShape } from './signatures';
 import { firstWord, readTags } from './tags';
 import type { DiscoveryResult } from './types';
 
@@ -22,6 +22,8 @@ export interface GroupPairing {
   fileFindings: DiscoveryResult['fileFindings'];
   shapeOf(c: Callable): ReturnShape;
   pointTaking(c: Callable): boolean;
+  /** Its declared return type is a matrix (`number[][]`). */
+  returnsMatrix(c: Callable): boolean;
   /** An info finding on a name. */
   note(code: 'ambiguous-pair' | 'unpaired-function' | 'missing-export', node: ts.Node, message: string, severity?: 'info' | 'error'): void;
 }
@@ -66,6 +68,22 @@ export function matchJacobians(pairing: GroupPairing): void {
     if (!(value && derivative) && !named) continue;
     used.add(callable);
     pairing.matches.push({ kind: 'jacobian', group, objective: callable, gradient: null, split: value && derivative ? { value, derivative } : named && shape.kind === 'object' ? { value: value ?? 'r', derivative: derivative ?? 'J' } : { value: '0', derivative: '1' }, matchedBy: 'combined', findings: [] });
+  }
+}
+
+/**
+ * Nothing skipped silently: a function declared to return a matrix from the same first parameter
+ * as a function returning a vector, both left unpaired, may be a Jacobian under a name of its own
+ * (`driftSensitivity` beside `driftErrors`); a note says which tag pairs them.
+ */
+export function noteUnpairedJacobians(pairing: GroupPairing): void {
+  const { group, used } = pairing;
+  const parameterOf = (c: Callable) => (c.fn ? firstParameterText(c.fn) : null);
+  for (const candidate of group.callables) {
+    if (used.has(candidate) || !candidate.fn || !pairing.returnsMatrix(candidate) || parameterOf(candidate) === null) continue;
+    const residuals = group.callables.filter((c) => c !== candidate && !used.has(c) && pairing.shapeOf(c).kind === 'vector' && parameterOf(c) === parameterOf(candidate));
+    if (residuals.length === 0) continue;
+    pairing.note('unpaired-function', candidate.nameNode, `\`${candidate.label}\` returns a matrix from the same parameter as ${residuals.map((c) => `\`${c.label}\``).join(' or ')}, which ${residuals.length === 1 ? 'returns' : 'return'} a vector, but no name pairs them. If it is the Jacobian of ${residuals.length === 1 ? `\`${residuals[0].label}\`` : 'one of them'}, tag it, e.g. /** @${jacobianNaming.tag} ${residuals[0].name} */.`);
   }
 }
 

@@ -9,8 +9,8 @@ import type * as ts from 'typescript';
 import type { Finding, TargetKind } from '../engine/types';
 import type { Callable, CallableGroup } from './callables';
 import { combinedGradientKeys, combinedValueKeys, isCombinedName, isDerivativeLikeName, isGenericDerivativeName, isObjectiveLikeName, objectiveNamesFor, tagNames, type NameRank } from './conventions';
-import { matchJacobians, matchSecondOrder, type GroupPairing } from './matrixPairing';
-import { firstParameterText, returnShape, takesPoint, type ReturnShape } from './signatures';
+import { matchJacobians, matchSecondOrder, noteUnpairedJacobians, type GroupPairing } from './matrixPairing';
+import { firstParameterText, returnShape, returnsMatrix, takesPoint, type ReturnShape } from './signatures';
 import { spanOfNode } from './spans';
 import { firstWord, hasTag, readTags } from './tags';
 import type { TypeDeclarations } from './typeShapes';
@@ -71,7 +71,7 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
   const byName = (name: string) => group.callables.find((c) => c.names.includes(name));
   const note = (code: Finding['code'], node: ts.Node, message: string, severity: Finding['severity'] = 'info') =>
     fileFindings.push({ code, severity, subject: 'gradient', message, span: spanOfNode(sourceFile, node) });
-  const groupPairing: GroupPairing = { sourceFile, group, used, matches, fileFindings, shapeOf, pointTaking, note };
+  const groupPairing: GroupPairing = { sourceFile, group, used, matches, fileFindings, shapeOf, pointTaking, note, returnsMatrix: (c) => c.fn !== null && returnsMatrix(c.fn, types) };
 
   // 0. Residuals and their Jacobian, before a residual-like name can be taken for an objective.
   matchJacobians(groupPairing);
@@ -164,8 +164,10 @@ function matchGroup(sourceFile: ts.SourceFile, group: CallableGroup, types: Type
     matches.push({ kind: 'gradient', group, objective: callable, gradient: null, split, matchedBy: 'combined', findings: [] });
   }
 
-  // Hessians and Hessian-vector products, next to the gradients just found.
+  // Hessians and Hessian-vector products, next to the gradients just found; then a note on any
+  // matrix-returning function beside a residual-like one that no name paired.
   matchSecondOrder(groupPairing);
+  noteUnpairedJacobians(groupPairing);
 
   // 4. Nothing skipped silently: a function left unpaired that looks like a gradient — by its name, or
   //    by returning a vector from the same declared parameter as an objective left unpaired — says why.

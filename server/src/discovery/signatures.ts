@@ -62,6 +62,13 @@ export function declaredParameter(parameter: ts.ParameterDeclaration, types: Typ
   return null;
 }
 
+/** The declared return type is a matrix: `number[][]`, `Float64Array[]`, `Array<number[]>`. */
+export function returnsMatrix(fn: FunctionNode, types: TypeDeclarations): boolean {
+  const resolved = resolveType(returnType(fn), types);
+  const element = resolved && ts.isArrayTypeNode(resolved) ? resolved.elementType : resolved && ts.isTypeReferenceNode(resolved) && resolved.typeArguments?.length === 1 && ts.isIdentifier(resolved.typeName) && ['Array', 'ReadonlyArray'].includes(resolved.typeName.text) ? resolved.typeArguments[0] : undefined;
+  return element !== undefined && shapeOfType(element, types).kind === 'vector';
+}
+
 /** Shape of a declared type: `number`, `number[]`, `Float64Array`, tuples and same-file aliases. */
 export function shapeOfType(type: ts.TypeNode | undefined, types: TypeDeclarations): ReturnShape {
   const resolved = resolveType(type, types);
