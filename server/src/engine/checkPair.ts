@@ -7,7 +7,7 @@ import { createRandom } from './random';
 import { compareWithResiduals } from './leastSquaresForm';
 import { probeSmoothness, smoothnessOf } from './smoothness';
 import { descend, reviewLearningRate } from './stepSize';
-import { budgetFinding, callsPerDerivative, firstProbeWork, probeTimeMargin, runTarget } from './targetRun';
+import { budgetFinding, callsPerDerivative, firstProbeWork, probeTimeMargin, probesCutFinding, runTarget } from './targetRun';
 import type { CheckOptions, CheckPlan, Finding, PairReport, ProbeReport, UndecidedReason, Vector } from './types';
 import { BudgetSpent, type UserCalls } from './userCalls';
 
@@ -91,10 +91,10 @@ function runChecks(calls: UserCalls, points: Float64Array[], plan: PairPlan, opt
   }
   if (outcomes.length === 0) {
     report.status = 'inconclusive';
-    report.findings.push(budgetFinding(calls, 'the time budget ran out before probe 1 was decided; no verdict'));
+    report.findings.push(probesCutFinding(calls, 0, points.length));
     return null;
   }
-  if (cutShort) report.findings.push(budgetFinding(calls, `the time budget ran out after ${outcomes.length === 1 ? 'probe 1' : `probes 1–${outcomes.length}`} of ${points.length}; the verdict rests on ${outcomes.length === 1 ? 'it' : 'them'}`));
+  if (cutShort) report.findings.push(probesCutFinding(calls, outcomes.length, points.length));
   report.maxRelError = Math.max(...outcomes.map((o) => o.report.maxRelError));
   const failing = outcomes.find((o) => o.mismatch);
   report.diagnosis = failing ? failing.diagnosis : null;

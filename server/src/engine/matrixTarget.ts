@@ -7,7 +7,7 @@ import { isDecided, undecidedWording } from './decision';
 import { kindWording } from './kindWording';
 import { checkMatrixProbe, largestWholeMatrix, type AnalyticMatrix, type MatrixProbeContext, type MatrixProbeOutcome, type MatrixWork } from './matrixProbe';
 import { createRandom } from './random';
-import { budgetFinding, callsPerDerivative, firstProbeWork, probeTimeMargin, runTarget } from './targetRun';
+import { callsPerDerivative, firstProbeWork, probeTimeMargin, probesCutFinding, runTarget } from './targetRun';
 import type { CheckOptions, Finding, PairReport, TargetKind } from './types';
 import { BudgetSpent, makeFinding, type CallSite, type UserCalls } from './userCalls';
 import { largest } from './vectors';
@@ -71,11 +71,11 @@ function runProbes(kind: MatrixKind, calls: UserCalls, points: Float64Array[], p
   report.matrix = { rows: outcomes[0]?.context.values.length ?? 0, columns: n, diagnosis: null };
   if (outcomes.length === 0) {
     report.status = 'inconclusive';
-    report.findings.push(budgetFinding(calls, 'the time budget ran out before probe 1 was decided; no verdict'));
+    report.findings.push(probesCutFinding(calls, 0, points.length));
     return;
   }
   for (const outcome of outcomes) report.probes.push(outcome.report);
-  if (cutShort) report.findings.push(budgetFinding(calls, `the time budget ran out after ${outcomes.length === 1 ? 'probe 1' : `probes 1–${outcomes.length}`} of ${points.length}; the verdict rests on ${outcomes.length === 1 ? 'it' : 'them'}`));
+  if (cutShort) report.findings.push(probesCutFinding(calls, outcomes.length, points.length));
   report.maxRelError = largest(outcomes.map((o) => o.report.maxRelError));
   const failing = outcomes.find((o) => o.mismatch);
   const kinked = outcomes.filter((o) => o.kink);

@@ -121,6 +121,12 @@ export function probePoints(probes: number[][], plan: PairPlan, options: CheckOp
   return points;
 }
 
+/** The budget stopped the probes after `checked` of `total`: the verdict rests on those (none: no verdict). */
+export function probesCutFinding(calls: UserCalls, checked: number, total: number): Finding {
+  if (checked === 0) return budgetFinding(calls, 'the time budget ran out before probe 1 was decided; no verdict');
+  return budgetFinding(calls, `the time budget ran out after ${checked === 1 ? 'probe 1' : `probes 1–${checked}`} of ${total}; the verdict rests on ${checked === 1 ? 'it' : 'them'}`);
+}
+
 /** The time budget ran out: what was decided, and how many calls it took. */
 export function budgetFinding(calls: UserCalls, what: string): Finding {
   const made = calls.made();
